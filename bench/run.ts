@@ -1,0 +1,105 @@
+/**
+ * Benchmark runner.
+ *
+ *   npm run bench                       table of every case
+ *   npm run bench -- --json             one JSON object a line: {case, size, median_ms, min_ms, error}
+ *   npm run bench -- --quick            tiny sizes, one or two runs (a smoke test for CI)
+ *   npm run bench -- optics.refract     only the named cases (prefix match)
+ *   npm run bench -- --repeat 9         timed runs per case
+ */
+import { readdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { Bench } from 'tinybench';
+import type { BenchCase } from './case.js';
+
+interface Row {
+  case: string;
+  size: number;
+  median_ms: number;
+  min_ms: number;
+  error: number;
+  note?: string;
+}
+
+async function loadCases(): Promise<BenchCase[]> {
+  const dir = join(dirname(fileURLToPath(import.meta.url)), 'cases');
+  const files = readdirSync(dir)
+    .filter((f) => f.endsWith('.ts'))
+    .sort();
+  const all: BenchCase[] = [];
+  for (const f of files) {
+    const mod = (await import(pathToFileURL(join(dir, f)).href)) as { cases?: BenchCase[] };
+    if (mod.cases) all.push(...mod.cases);
+  }
+  return all;
+}
+
+async function runCase(c: BenchCase, quick: boolean, repeat: number | undefined): Promise<Row> {
+  const size = quick ? c.quickSize : c.size;
+  const prepared = await c.prepare(size);
+  let last: unknown;
+  const iterations = repeat ?? (quick ? 2 : (c.iterations ?? 5));
+  const bench = new Bench({ iterations, time: 0, warmup: true, warmupIterations: 1, warmupTime: 0 });
+  bench.add(c.name, () => {
+    last = prepared.run();
+  });
+  await bench.run();
+  const task = bench.tasks[0]!;
+  const r = task.result;
+  if (r.state !== 'completed') {
+    const err = r.state === 'errored' ? r.error : new Error(`bench task ended in state ${r.state}`);
+    throw err;
+  }
+  const median = r.latency.p50;
+  const row: Row = {
+    case: c.name,
+    size,
+    median_ms: Math.round(median * 1000) / 1000,
+    min_ms: Math.round(r.latency.min * 1000) / 1000,
+    error: prepared.error(last),
+  };
+  const note = prepared.notes?.(median);
+  if (note) row.note = note;
+  return row;
+}
+
+async function main(): Promise<void> {
+  const args = process.argv.slice(2);
+  const json = args.includes('--json');
+  const quick = args.includes('--quick');
+  let repeat: number | undefined;
+  const ri = args.indexOf('--repeat');
+  if (ri >= 0) repeat = Number(args[ri + 1]);
+  const names = args.filter((a, i) => !a.startsWith('--') && !(ri >= 0 && i === ri + 1));
+  const cases = (await loadCases()).filter((c) => names.length === 0 || names.some((n) => c.name.startsWith(n)));
+  if (cases.length === 0) throw new Error(`no bench case matches ${names.join(', ')}`);
+  const rows: Row[] = [];
+  for (const c of cases) {
+    const row = await runCase(c, quick, repeat);
+    rows.push(row);
+    if (json) {
+      const { note: _note, ...rest } = row;
+      console.log(JSON.stringify(rest));
+    }
+  }
+  if (!json) {
+    const head = ['case', 'size', 'median ms', 'min ms', 'error'];
+    const body = rows.map((r) => [r.case, String(r.size), r.median_ms.toFixed(3), r.min_ms.toFixed(3), r.error.toExponential(3)]);
+    const widths = head.map((h, k) => Math.max(h.length, ...body.map((b) => b[k]!.length)));
+    const line = (cells: string[]) => cells.map((s, k) => (k === 0 ? s.padEnd(widths[k]!) : s.padStart(widths[k]!))).join('  ');
+    console.log(line(head));
+    console.log(widths.map((w) => '-'.repeat(w)).join('  '));
+    for (const b of body) console.log(line(b));
+    const notes = rows.filter((r) => r.note);
+    if (notes.length) {
+      console.log('');
+      for (const r of notes) console.log(`${r.case}: ${r.note}`);
+    }
+  }
+}
+
+main().catch((e: unknown) => {
+  console.error(e);
+  process.exit(1);
+});
