@@ -9,5 +9,6 @@ export * from './core/index.js';
 export * from './optics/index.js';
 export * from './sun/index.js';
 export * from './camera/index.js';
+export * from './integrate/index.js';
 export * from './metrics/index.js';
 export * from './viz/index.js';

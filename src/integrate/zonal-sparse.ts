@@ -1,0 +1,338 @@
+/**
+ * Sparse symmetric matrices whose couplings stay within a small box of offsets on a
+ * grid (the normal equations of the zonal and scattered integrators), with an
+ * incomplete-Cholesky preconditioner and a PCG driver that keeps the iterates out of the
+ * matrix's null space (constant heights on each coupled piece). Internal.
+ *
+ * @module
+ * @internal
+ */
+import { pcg, type PcgResult } from './pcg.js';
+import type { ProgressCallback } from './types.js';
+
+/**
+ * A symmetric `n × n` matrix, `n = width × height`, whose row `k` (node `(i, j)`) couples
+ * only to nodes `(i + di, j + dj)` with `|di|, |dj| ≤ radius`. Coefficient of offset `o`
+ * in row `k` is `coef[k * size + o]`, offsets in row-major order of `(dj, di)`, so the
+ * offsets `o < center` are exactly the columns before `k` in the natural node order.
+ *
+ * @internal
+ */
+export interface StencilMatrix {
+  readonly width: number;
+  readonly height: number;
+  readonly radius: number;
+  /** Box side `2·radius + 1`. */
+  readonly side: number;
+  /** Offsets a row: `side²`. */
+  readonly size: number;
+  /** Index of the diagonal offset. */
+  readonly center: number;
+  readonly coef: Float64Array;
+  readonly di: Int32Array;
+  readonly dj: Int32Array;
+  /** Linear index offset `dj·width + di` of each offset. */
+  readonly off: Int32Array;
+}
+
+/** @internal */
+export function createStencilMatrix(width: number, height: number, radius: number): StencilMatrix {
+  const side = 2 * radius + 1;
+  const size = side * side;
+  const di = new Int32Array(size);
+  const dj = new Int32Array(size);
+  const off = new Int32Array(size);
+  for (let o = 0; o < size; o++) {
+    di[o] = (o % side) - radius;
+    dj[o] = Math.floor(o / side) - radius;
+    off[o] = dj[o]! * width + di[o]!;
+  }
+  return {
+    width,
+    height,
+    radius,
+    side,
+    size,
+    center: radius * side + radius,
+    coef: new Float64Array(width * height * size),
+    di,
+    dj,
+    off,
+  };
+}
+
+/**
+ * Add `w · c cᵀ` for one least-squares equation `Σ_t c_t h[nodes_t] ≈ s` (and `w c s`
+ * to `rhs`). Nodes must lie within the box of each other.
+ *
+ * @internal
+ */
+export function addEquation(
+  A: StencilMatrix,
+  rhs: Float64Array,
+  nodes: Int32Array,
+  c: Float64Array,
+  count: number,
+  w: number,
+  s: number,
+): void {
+  const { width, side, size, radius, coef } = A;
+  for (let t = 0; t < count; t++) {
+    const a = nodes[t]!;
+    const ai = a % width;
+    const aj = (a - ai) / width;
+    const wc = w * c[t]!;
+    rhs[a]! += wc * s;
+    const base = a * size;
+    for (let u = 0; u < count; u++) {
+      const b = nodes[u]!;
+      const bi = b % width;
+      const bj = (b - bi) / width;
+      coef[base + (bj - aj + radius) * side + (bi - ai + radius)]! += wc * c[u]!;
+    }
+  }
+}
+
+/** `out = A v`. Interior rows skip the bounds checks. @internal */
+export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Array): void {
+  const { width, height, size, coef, di, dj, off, radius } = A;
+  for (let j = 0; j < height; j++) {
+    const inner = j >= radius && j < height - radius;
+    for (let i = 0; i < width; i++) {
+      const k = j * width + i;
+      const base = k * size;
+      let s = 0;
+      if (inner && i >= radius && i < width - radius) {
+        for (let o = 0; o < size; o++) s += coef[base + o]! * v[k + off[o]!]!;
+      } else {
+        for (let o = 0; o < size; o++) {
+          const c = coef[base + o]!;
+          if (c === 0) continue;
+          const ii = i + di[o]!;
+          const jj = j + dj[o]!;
+          if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+          s += c * v[k + off[o]!]!;
+        }
+      }
+      out[k] = s;
+    }
+  }
+}
+
+/**
+ * Incomplete Cholesky factor `L` (lower offsets and diagonal of the box pattern) with
+ * `A ≈ L Lᵀ`. Rows with a zero diagonal (unused nodes) get `L_kk = 1`. A pivot that
+ * falls below `1e-6 · A_kk` (the last node of each singular piece) is replaced by
+ * `A_kk`, which keeps the preconditioner positive definite.
+ *
+ * @see Meijerink, J. A. & van der Vorst, H. A. (1977), "An iterative solution method for
+ *   linear systems of which the coefficient matrix is a symmetric M-matrix", Mathematics
+ *   of Computation 31(137), 148–162.
+ * @internal
+ */
+export function incompleteCholesky(A: StencilMatrix): Float64Array {
+  const { width, height, size, center, coef, di, dj, off, side, radius } = A;
+  const L = new Float64Array(coef.length);
+  // For each lower offset o, the pairs (o1, o2) with o1 < o lower and d(o1) − d(o) = d(o2)
+  // inside the box: L_ik −= L_i,m · L_k,m for m = i + d(o1) = k + d(o2).
+  const pairs: number[][] = [];
+  for (let o = 0; o < center; o++) {
+    const list: number[] = [];
+    for (let o1 = 0; o1 < o; o1++) {
+      const ddi = di[o1]! - di[o]!;
+      const ddj = dj[o1]! - dj[o]!;
+      if (Math.abs(ddi) > radius || Math.abs(ddj) > radius) continue;
+      const o2 = (ddj + radius) * side + (ddi + radius);
+      if (o2 >= center) continue;
+      list.push(o1, o2);
+    }
+    pairs.push(list);
+  }
+  for (let j = 0; j < height; j++) {
+    for (let i = 0; i < width; i++) {
+      const k = j * width + i;
+      const base = k * size;
+      const akk = coef[base + center]!;
+      if (!(akk > 0)) {
+        L[base + center] = 1;
+        continue;
+      }
+      let diag = akk;
+      for (let o = 0; o < center; o++) {
+        const ii = i + di[o]!;
+        const jj = j + dj[o]!;
+        if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+        const c = k + off[o]!;
+        const cbase = c * size;
+        let s = coef[base + o]!;
+        const list = pairs[o]!;
+        for (let t = 0; t < list.length; t += 2) {
+          const o1 = list[t]!;
+          const i1 = i + di[o1]!;
+          const j1 = j + dj[o1]!;
+          if (i1 < 0 || i1 >= width || j1 < 0 || j1 >= height) continue;
+          s -= L[base + o1]! * L[cbase + list[t + 1]!]!;
+        }
+        if (s === 0) continue;
+        const l = s / L[cbase + center]!;
+        L[base + o] = l;
+        diag -= l * l;
+      }
+      L[base + center] = Math.sqrt(diag >= 1e-6 * akk ? diag : akk);
+    }
+  }
+  return L;
+}
+
+/** `z = (L Lᵀ)⁻¹ r`. Interior rows skip the bounds checks. @internal */
+export function applyCholesky(A: StencilMatrix, L: Float64Array, r: Float64Array, z: Float64Array): void {
+  const { width, height, size, center, di, dj, off, radius } = A;
+  // forward: L y = r (y stored in z)
+  for (let j = 0; j < height; j++) {
+    const inner = j >= radius && j < height - radius;
+    for (let i = 0; i < width; i++) {
+      const k = j * width + i;
+      const base = k * size;
+      let s = r[k]!;
+      if (inner && i >= radius && i < width - radius) {
+        for (let o = 0; o < center; o++) s -= L[base + o]! * z[k + off[o]!]!;
+      } else {
+        for (let o = 0; o < center; o++) {
+          const l = L[base + o]!;
+          if (l === 0) continue;
+          const ii = i + di[o]!;
+          const jj = j + dj[o]!;
+          if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+          s -= l * z[k + off[o]!]!;
+        }
+      }
+      z[k] = s / L[base + center]!;
+    }
+  }
+  // backward: Lᵀ x = y, column-oriented, in place
+  for (let j = height - 1; j >= 0; j--) {
+    const inner = j >= radius && j < height - radius;
+    for (let i = width - 1; i >= 0; i--) {
+      const k = j * width + i;
+      const base = k * size;
+      const xk = z[k]! / L[base + center]!;
+      z[k] = xk;
+      if (inner && i >= radius && i < width - radius) {
+        for (let o = 0; o < center; o++) z[k + off[o]!]! -= L[base + o]! * xk;
+      } else {
+        for (let o = 0; o < center; o++) {
+          const l = L[base + o]!;
+          if (l === 0) continue;
+          const ii = i + di[o]!;
+          const jj = j + dj[o]!;
+          if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+          z[k + off[o]!]! -= l * xk;
+        }
+      }
+    }
+  }
+}
+
+/**
+ * Connected components of the nodes with a positive diagonal, joined where an
+ * off-diagonal coefficient is non-zero (or by a caller-given union). Labels are 1-based
+ * in scan order of each component's first node; 0 marks unused nodes.
+ *
+ * @internal
+ */
+export function stencilComponents(A: StencilMatrix): { labels: Int32Array; count: number } {
+  const { width, height, size, center, coef, di, dj, off } = A;
+  const n = width * height;
+  const labels = new Int32Array(n);
+  const stack = new Int32Array(n);
+  let count = 0;
+  for (let s = 0; s < n; s++) {
+    if (labels[s] !== 0 || !(coef[s * size + center]! > 0)) continue;
+    count++;
+    let top = 0;
+    stack[top++] = s;
+    labels[s] = count;
+    while (top > 0) {
+      const k = stack[--top]!;
+      const i = k % width;
+      const j = (k - i) / width;
+      const base = k * size;
+      for (let o = 0; o < size; o++) {
+        if (o === center || coef[base + o] === 0) continue;
+        const ii = i + di[o]!;
+        const jj = j + dj[o]!;
+        if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+        const m = k + off[o]!;
+        if (labels[m] === 0) {
+          labels[m] = count;
+          stack[top++] = m;
+        }
+      }
+    }
+  }
+  return { labels, count };
+}
+
+/** Subtract the mean of each label's entries (label 0 entries are zeroed). @internal */
+export function removeLabelMeans(v: Float64Array, labels: Int32Array, count: number, sums: Float64Array, counts: Float64Array): void {
+  sums.fill(0);
+  counts.fill(0);
+  const n = v.length;
+  for (let k = 0; k < n; k++) {
+    const l = labels[k]!;
+    sums[l]! += v[k]!;
+    counts[l]! += 1;
+  }
+  for (let l = 1; l <= count; l++) if (counts[l]! > 0) sums[l] = sums[l]! / counts[l]!;
+  for (let k = 0; k < n; k++) {
+    const l = labels[k]!;
+    v[k] = l === 0 ? 0 : v[k]! - sums[l]!;
+  }
+}
+
+/** @internal */
+export interface StencilSolveOptions {
+  tolerance: number;
+  maxIterations: number;
+  onProgress?: ProgressCallback | undefined;
+}
+
+/**
+ * Solve the consistent, symmetric positive semi-definite system `A x = b` whose null
+ * space is spanned by the indicator vectors of `labels` (constant on each piece). PCG
+ * with an incomplete-Cholesky preconditioner whose output is projected onto the
+ * complement of the null space, so that from `x = 0` the iterates converge to the
+ * minimum-norm solution (zero mean on every label).
+ *
+ * @see Kaasschieter, E. F. (1988), "Preconditioned conjugate gradients for solving
+ *   singular systems", J. Computational and Applied Mathematics 24, 265–275.
+ * @internal
+ */
+export function solveStencil(
+  A: StencilMatrix,
+  b: Float64Array,
+  labels: Int32Array,
+  count: number,
+  opts: StencilSolveOptions,
+): { x: Float64Array; result: PcgResult } {
+  const n = b.length;
+  const sums = new Float64Array(count + 1);
+  const counts = new Float64Array(count + 1);
+  // b is orthogonal to the null space in exact arithmetic; remove rounding residue
+  const bb = b.slice();
+  removeLabelMeans(bb, labels, count, sums, counts);
+  const L = incompleteCholesky(A);
+  const x = new Float64Array(n);
+  const result = pcg(
+    (v, out) => applyStencil(A, v, out),
+    bb,
+    x,
+    (r, z) => {
+      applyCholesky(A, L, r, z);
+      removeLabelMeans(z, labels, count, sums, counts);
+    },
+    opts,
+  );
+  removeLabelMeans(x, labels, count, sums, counts);
+  return { x, result };
+}
