@@ -71,8 +71,8 @@ export class FisheyeCamera implements CameraModel {
 
   /**
    * @param params - Focal lengths, principal point and coefficients.
-   * @throws {@link MeniscusRangeError} for a focal length ≤ 0 or a non-finite parameter;
-   *   {@link MeniscusTypeError} for a parameter of the wrong type.
+   * @throws {@link core!MeniscusRangeError} for a focal length ≤ 0 or a non-finite parameter;
+   *   {@link core!MeniscusTypeError} for a parameter of the wrong type.
    */
   constructor(params: FisheyeParameters) {
     const fn = 'FisheyeCamera';
@@ -125,7 +125,7 @@ export class FisheyeCamera implements CameraModel {
    *
    * @param point - `[x, y, z]`, camera frame, metres (not the origin).
    * @returns `[u, v]`, or `null` beyond the valid field (or on the backward axis).
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad point.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad point.
    */
   project(point: Vec3): MutablePixel | null {
     const q = checkVec3('FisheyeCamera.project', 'point', point);
@@ -153,7 +153,7 @@ export class FisheyeCamera implements CameraModel {
    * {@link FisheyeCamera.project} for packed points `xyz xyz …`.
    *
    * @returns Packed pixels and a status a point.
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   projectBatch(points: Float64Array, options?: ProjectBatchOptions): ProjectBatchResult {
     const res = projectBuffers('FisheyeCamera.projectBatch', points, options);
@@ -208,7 +208,7 @@ export class FisheyeCamera implements CameraModel {
    *
    * @param pixel - `[u, v]`.
    * @returns The ray from the camera centre, or `null` beyond the valid field.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad pixel.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad pixel.
    */
   unproject(pixel: Pixel): CameraRay | null {
     const p = checkPixel('FisheyeCamera.unproject', 'pixel', pixel);
@@ -221,7 +221,7 @@ export class FisheyeCamera implements CameraModel {
    * {@link FisheyeCamera.unproject} for packed pixels `uv uv …`.
    *
    * @returns Origins (all zero), unit directions and a status a pixel.
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   unprojectBatch(pixels: Float64Array, options?: UnprojectBatchOptions): UnprojectBatchResult {
     const res = unprojectBuffers('FisheyeCamera.unprojectBatch', pixels, options);

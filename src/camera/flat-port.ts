@@ -91,8 +91,8 @@ export class FlatPortHousing {
 
   /**
    * @param options - The camera, the window's geometry and the three indices.
-   * @throws {@link MeniscusRangeError} for a distance ≤ 0, a negative thickness, an index
-   *   ≤ 0 or a zero normal; {@link MeniscusTypeError} for a non-central camera.
+   * @throws {@link core!MeniscusRangeError} for a distance ≤ 0, a negative thickness, an index
+   *   ≤ 0 or a zero normal; {@link core!MeniscusTypeError} for a non-central camera.
    */
   constructor(options: FlatPortOptions) {
     const fn = 'FlatPortHousing';
@@ -122,7 +122,7 @@ export class FlatPortHousing {
    * @param point - Camera-frame point in the water, metres.
    * @returns The unit direction from the camera centre, or `null` when the point is not
    *   beyond the window's outer face.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad point.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad point.
    */
   housingDirection(point: Vec3): MutableVec3 | null {
     const q = checkVec3('FlatPortHousing.housingDirection', 'point', point);
@@ -184,7 +184,7 @@ export class FlatPortHousing {
    * @param point - Camera-frame point in the water, metres.
    * @returns `[u, v]`, or `null` when the point is not beyond the window or its ray falls
    *   outside the camera's valid field.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad point.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad point.
    */
   project(point: Vec3): MutablePixel | null {
     const dir = this.housingDirection(point);
@@ -195,7 +195,7 @@ export class FlatPortHousing {
    * {@link FlatPortHousing.project} for packed points `xyz xyz …`.
    *
    * @returns Packed pixels and a status a point (`ok` or `outside`).
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   projectBatch(points: Float64Array, options?: ProjectBatchOptions): ProjectBatchResult {
     const res = projectBuffers('FlatPortHousing.projectBatch', points, options);
@@ -254,7 +254,7 @@ export class FlatPortHousing {
    * @returns The ray in the water (camera frame): `origin` on the outer face, unit
    *   `direction`; `null` when the camera cannot unproject the pixel, its ray misses the
    *   window, or it is totally reflected.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad pixel.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad pixel.
    */
   unproject(pixel: Pixel): CameraRay | null {
     checkPixel('FlatPortHousing.unproject', 'pixel', pixel);
@@ -269,7 +269,7 @@ export class FlatPortHousing {
    *
    * @returns Origins on the outer face, directions in the water, and a status a pixel
    *   (`ok`, the camera's `outside`/`notConverged`, `miss` or `tir`).
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   unprojectBatch(pixels: Float64Array, options?: UnprojectBatchOptions): UnprojectBatchResult {
     const res = unprojectBuffers('FlatPortHousing.unprojectBatch', pixels, options);

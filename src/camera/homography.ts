@@ -324,8 +324,8 @@ function fitOn(
  * @param dst - Destination points, packed `uv uv …` (e.g. pixels), same length.
  * @param options - RANSAC and refinement.
  * @returns The homography, the inlier mask and the transfer-error report.
- * @throws {@link MeniscusTypeError} for wrong array types or lengths;
- *   {@link MeniscusRangeError} for fewer than 4 pairs, non-finite coordinates, or a
+ * @throws {@link core!MeniscusTypeError} for wrong array types or lengths;
+ *   {@link core!MeniscusRangeError} for fewer than 4 pairs, non-finite coordinates, or a
  *   degenerate configuration: all points collinear, three of four collinear, or any set
  *   whose DLT system has rank below 8 (the homography is not determined), or when RANSAC
  *   finds no non-degenerate sample with at least 4 inliers.
@@ -456,7 +456,7 @@ function checkHomography(fn: string, h: unknown): Mat3 {
  * @param h - The homography, row-major.
  * @param point - `[x, y]`.
  * @returns `[u/w, v/w]`, or `null` when the point maps to infinity (w = 0).
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for bad input.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for bad input.
  * @see Hartley, R. & Zisserman, A. (2003), Multiple View Geometry in Computer Vision, §2.3.
  * @example
  * ```ts
@@ -487,7 +487,7 @@ export interface ApplyHomographyOptions {
  * @param points - Packed points.
  * @param options - Output buffers.
  * @returns Mapped points (NaN where the status is `outside`) and status codes.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for bad input.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for bad input.
  * @example
  * ```ts
  * applyHomographyBatch(fit.matrix, new Float64Array([0, 0, 1, 1])).points;
@@ -524,7 +524,7 @@ export function applyHomographyBatch(h: Mat3, points: Float64Array, options?: Ap
  *
  * @param h - The homography, row-major.
  * @returns `H⁻¹` (the adjugate, rescaled).
- * @throws {@link MeniscusRangeError} when `h` is singular (|det| ≤ 1e-14 ‖H‖³) or not finite.
+ * @throws {@link core!MeniscusRangeError} when `h` is singular (|det| ≤ 1e-14 ‖H‖³) or not finite.
  * @example
  * ```ts
  * invertHomography([2, 0, 1, 0, 2, 1, 0, 0, 1]); // [0.5, 0, -0.5, 0, 0.5, -0.5, 0, 0, 1]

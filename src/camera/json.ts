@@ -16,8 +16,8 @@ import { PinholeCamera } from './pinhole.js';
  *
  * @param params - `{ model: 'pinhole' | 'fisheye' | 'orthographic', fx, fy, cx, cy, … }`.
  * @returns The camera model.
- * @throws {@link MeniscusTypeError} for a non-object or unknown model;
- *   {@link MeniscusRangeError} for bad values.
+ * @throws {@link core!MeniscusTypeError} for a non-object or unknown model;
+ *   {@link core!MeniscusRangeError} for bad values.
  * @example
  * ```ts
  * const cam = cameraFromJSON(JSON.parse('{"model":"pinhole","fx":800,"fy":800,"cx":320,"cy":240,"k1":-0.2}'));

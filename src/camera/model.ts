@@ -29,7 +29,7 @@ export interface CameraRay {
 export interface ProjectBatchOptions {
   /** Output pixels, packed `uv uv …` (length 2N). */
   out?: Float64Array;
-  /** Output status codes ({@link Status}), length N. */
+  /** Output status codes ({@link core!Status}), length N. */
   status?: Uint8Array;
 }
 
@@ -37,7 +37,7 @@ export interface ProjectBatchOptions {
 export interface ProjectBatchResult {
   /** Packed pixels `uv uv …`; NaN where `status` is not `Status.ok`. */
   readonly pixels: Float64Array;
-  /** One {@link Status} code a point: `ok`, or `outside` (behind the camera or beyond the model's valid field). */
+  /** One {@link core!Status} code a point: `ok`, or `outside` (behind the camera or beyond the model's valid field). */
   readonly status: Uint8Array;
 }
 
@@ -57,7 +57,7 @@ export interface UnprojectBatchResult {
   readonly origins: Float64Array;
   /** Packed unit directions, camera frame; NaN where `status` is not ok. */
   readonly directions: Float64Array;
-  /** One {@link Status} code a pixel: `ok`, `outside` (beyond the valid field) or `notConverged`. */
+  /** One {@link core!Status} code a pixel: `ok`, `outside` (beyond the valid field) or `notConverged`. */
   readonly status: Uint8Array;
 }
 
@@ -185,7 +185,7 @@ export interface CameraModel {
  * Check a pixel at a public boundary.
  *
  * @returns The pixel.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for a wrong shape or non-finite values.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for a wrong shape or non-finite values.
  * @example
  * ```ts
  * checkPixel('fn', 'pixel', [10, 20]);

@@ -48,7 +48,7 @@ export class OrthographicCamera implements CameraModel {
 
   /**
    * @param params - Scales and the axis pixel.
-   * @throws {@link MeniscusRangeError} for a scale ≤ 0 or a non-finite parameter.
+   * @throws {@link core!MeniscusRangeError} for a scale ≤ 0 or a non-finite parameter.
    */
   constructor(params: OrthographicParameters) {
     const fn = 'OrthographicCamera';
@@ -63,7 +63,7 @@ export class OrthographicCamera implements CameraModel {
   /**
    * @param point - `[x, y, z]`, camera frame, metres.
    * @returns `[u, v]` (never null).
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad point.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad point.
    */
   project(point: Vec3): MutablePixel | null {
     const q = checkVec3('OrthographicCamera.project', 'point', point);
@@ -74,7 +74,7 @@ export class OrthographicCamera implements CameraModel {
    * {@link OrthographicCamera.project} for packed points.
    *
    * @returns Packed pixels and a status a point (always ok for finite input).
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   projectBatch(points: Float64Array, options?: ProjectBatchOptions): ProjectBatchResult {
     const res = projectBuffers('OrthographicCamera.projectBatch', points, options);
@@ -92,7 +92,7 @@ export class OrthographicCamera implements CameraModel {
   /**
    * @param pixel - `[u, v]`.
    * @returns The ray from the plane z = 0 along +z (never null).
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad pixel.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad pixel.
    */
   unproject(pixel: Pixel): CameraRay | null {
     const p = checkPixel('OrthographicCamera.unproject', 'pixel', pixel);
@@ -103,7 +103,7 @@ export class OrthographicCamera implements CameraModel {
    * {@link OrthographicCamera.unproject} for packed pixels.
    *
    * @returns Origins on z = 0, directions +z, and a status a pixel.
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   unprojectBatch(pixels: Float64Array, options?: UnprojectBatchOptions): UnprojectBatchResult {
     const res = unprojectBuffers('OrthographicCamera.unprojectBatch', pixels, options);

@@ -110,8 +110,8 @@ export class PinholeCamera implements CameraModel {
 
   /**
    * @param params - Focal lengths, principal point and distortion coefficients.
-   * @throws {@link MeniscusRangeError} for a focal length ≤ 0 or a non-finite parameter;
-   *   {@link MeniscusTypeError} for a parameter of the wrong type.
+   * @throws {@link core!MeniscusRangeError} for a focal length ≤ 0 or a non-finite parameter;
+   *   {@link core!MeniscusTypeError} for a parameter of the wrong type.
    */
   constructor(params: PinholeParameters) {
     const fn = 'PinholeCamera';
@@ -176,7 +176,7 @@ export class PinholeCamera implements CameraModel {
    *
    * @param point - `[x, y, z]`, camera frame, metres.
    * @returns `[u, v]`, or `null` when z ≤ 0 or the point is beyond the valid field.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad point.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad point.
    */
   project(point: Vec3): MutablePixel | null {
     const q = checkVec3('PinholeCamera.project', 'point', point);
@@ -192,7 +192,7 @@ export class PinholeCamera implements CameraModel {
    * @param points - Packed camera-frame points, metres.
    * @param options - Optional output buffers.
    * @returns Packed pixels and a status a point (`ok` or `outside`).
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   projectBatch(points: Float64Array, options?: ProjectBatchOptions): ProjectBatchResult {
     const res = projectBuffers('PinholeCamera.projectBatch', points, options);
@@ -279,7 +279,7 @@ export class PinholeCamera implements CameraModel {
    * @param pixel - `[u, v]`.
    * @returns The ray from the camera centre, or `null` when the pixel maps beyond the
    *   valid field or the iteration does not converge.
-   * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a bad pixel.
+   * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a bad pixel.
    */
   unproject(pixel: Pixel): CameraRay | null {
     const p = checkPixel('PinholeCamera.unproject', 'pixel', pixel);
@@ -295,7 +295,7 @@ export class PinholeCamera implements CameraModel {
    * @param pixels - Packed pixels.
    * @param options - Optional output buffers.
    * @returns Origins (all zero), unit directions and a status a pixel.
-   * @throws {@link MeniscusTypeError} for wrong array lengths.
+   * @throws {@link core!MeniscusTypeError} for wrong array lengths.
    */
   unprojectBatch(pixels: Float64Array, options?: UnprojectBatchOptions): UnprojectBatchResult {
     const res = unprojectBuffers('PinholeCamera.unprojectBatch', pixels, options);

@@ -37,7 +37,7 @@ export interface Plane {
  * Check a rotation matrix: orthonormal within `tolerance` and, unless `allowReflection`, with determinant +1.
  *
  * @returns The matrix.
- * @throws {@link MeniscusTypeError} for a wrong shape; {@link MeniscusRangeError} when it
+ * @throws {@link core!MeniscusTypeError} for a wrong shape; {@link core!MeniscusRangeError} when it
  *   is not a rotation.
  * @example
  * ```ts
@@ -76,7 +76,7 @@ export function checkRotation(fn: string, parameter: string, value: unknown, tol
  * @param position - Camera centre in the world frame, metres.
  * @param allowReflection - Accept a determinant of −1. @defaultValue false
  * @returns The pose (copies of the inputs).
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for a non-rotation or a bad position.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for a non-rotation or a bad position.
  * @example
  * ```ts
  * const pose = createCameraPose([1, 0, 0, 0, 1, 0, 0, 0, 1], [0, 0, -0.5]);
@@ -105,7 +105,7 @@ function checkPose(fn: string, pose: unknown): CameraPose {
  * @param target - A point the optical axis passes through.
  * @param up - The world direction that should appear up in the image. @defaultValue [0, 0, 1]
  * @returns The pose.
- * @throws {@link MeniscusRangeError} when `eye` equals `target` or `up` is parallel to the view.
+ * @throws {@link core!MeniscusRangeError} when `eye` equals `target` or `up` is parallel to the view.
  * @example
  * ```ts
  * lookAt([0, 0, 0], [0, 1, 0]); // looking north, image right = east, image down = down
@@ -134,7 +134,7 @@ export function lookAt(eye: Vec3, target: Vec3, up: Vec3 = [0, 0, 1]): CameraPos
  * @param pose - The camera pose.
  * @param point - World point, metres.
  * @returns The point in the camera frame, metres.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * worldToCamera(lookAt([0, 0, 0], [0, 1, 0]), [0, 5, 0]); // [0, 0, 5]
@@ -154,7 +154,7 @@ export function worldToCamera(pose: CameraPose, point: Vec3): MutableVec3 {
  * @param pose - The camera pose.
  * @param point - Camera-frame point, metres.
  * @returns The world point, metres.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * cameraToWorld(lookAt([0, 0, 0], [0, 1, 0]), [0, 0, 5]); // [0, 5, 0]
@@ -175,7 +175,7 @@ export function cameraToWorld(pose: CameraPose, point: Vec3): MutableVec3 {
  * A world direction in the camera frame: `Rᵀ d` (no translation).
  *
  * @returns The direction in the camera frame.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * worldDirectionToCamera(lookAt([0, 0, 0], [0, 1, 0]), [0, 1, 0]); // [0, 0, 1]
@@ -192,7 +192,7 @@ export function worldDirectionToCamera(pose: CameraPose, direction: Vec3): Mutab
  * A camera-frame direction in the world: `R d`.
  *
  * @returns The direction in the world frame.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * cameraDirectionToWorld(lookAt([0, 0, 0], [0, 1, 0]), [0, 0, 1]); // [0, 1, 0]
@@ -212,7 +212,7 @@ export function cameraDirectionToWorld(pose: CameraPose, direction: Vec3): Mutab
  * @param points - Packed world points, metres.
  * @param out - Optional output of the same length (may be `points` itself).
  * @returns Packed camera-frame points.
- * @throws {@link MeniscusTypeError} for a wrong array length.
+ * @throws {@link core!MeniscusTypeError} for a wrong array length.
  * @example
  * ```ts
  * worldToCameraBatch(pose, new Float64Array([0, 5, 0, 1, 5, 0]));
@@ -241,7 +241,7 @@ export function worldToCameraBatch(pose: CameraPose, points: Float64Array, out?:
  * @param points - Packed camera-frame points, metres.
  * @param out - Optional output of the same length (may be `points` itself).
  * @returns Packed world points.
- * @throws {@link MeniscusTypeError} for a wrong array length.
+ * @throws {@link core!MeniscusTypeError} for a wrong array length.
  * @example
  * ```ts
  * cameraToWorldBatch(pose, new Float64Array([0, 0, 5]));
@@ -275,7 +275,7 @@ function checkPlane(fn: string, plane: unknown): { p: Vec3; n: MutableVec3 } {
  * @param plane - The mirror plane.
  * @param point - The point, metres.
  * @returns The reflected point.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * reflectPoint({ point: [0, 0, 1], normal: [0, 0, 1] }, [3, 4, 0]); // [3, 4, 2]
@@ -298,7 +298,7 @@ export function reflectPoint(plane: Plane, point: Vec3): MutableVec3 {
  * @param pose - The real camera's pose.
  * @param plane - The mirror plane.
  * @returns The virtual camera's pose (reflecting twice gives the original back).
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @see Hartley, R. & Zisserman, A. (2003), Multiple View Geometry in Computer Vision,
  *   2nd ed., Cambridge University Press (camera matrices and planar transformations).
  * @example

@@ -35,7 +35,7 @@ export interface PreparedDctPoisson {
   /**
    * Integrate one frame; `p` and `q` must have the prepared size and spacing.
    *
-   * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for bad grids.
+   * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for bad grids.
    */
   solve(p: Grid, q: Grid, options?: DctPoissonFrameOptions): IntegrationResult;
 }
@@ -207,7 +207,7 @@ function columnSolve(
  * @param spec - Grid geometry (`width`, `height`, `dx`, `dy`; the origin is taken from
  *   each frame's slopes).
  * @returns The prepared solver; its `solve` allocates only the output (none with `out`).
- * @throws {@link MeniscusRangeError} for sizes or spacings out of range.
+ * @throws {@link core!MeniscusRangeError} for sizes or spacings out of range.
  * @see Simchony, T., Chellappa, R. & Shao, M. (1990), "Direct analytical methods for
  *   solving Poisson equations in computer vision problems", IEEE TPAMI 12(5), 435–446.
  * @example
@@ -255,8 +255,8 @@ export function prepareDctPoisson(spec: GridSpec): PreparedDctPoisson {
  * @param options - See {@link DctPoissonOptions}.
  * @returns Heights in metres on the slopes' grid; `rmsResidual` is the RMS misfit of
  *   the forward-difference pairs; `iterations` 0.
- * @throws {@link MeniscusTypeError} when a grid is malformed or the sizes differ.
- * @throws {@link MeniscusRangeError} for non-finite slopes or a mismatched geometry.
+ * @throws {@link core!MeniscusTypeError} when a grid is malformed or the sizes differ.
+ * @throws {@link core!MeniscusRangeError} for non-finite slopes or a mismatched geometry.
  * @see Simchony, T., Chellappa, R. & Shao, M. (1990), "Direct analytical methods for
  *   solving Poisson equations in computer vision problems", IEEE TPAMI 12(5), 435–446.
  * @see Makhoul, J. (1980), "A fast cosine transform in one and two dimensions", IEEE

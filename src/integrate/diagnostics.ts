@@ -60,7 +60,7 @@ export interface SlopeResidual {
  * @param q - Slopes ∂h/∂y, same size and geometry.
  * @param options - See {@link DiagnosticOptions}.
  * @returns The curl map and its RMS and maximum.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for malformed input or a grid under 2 × 2.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for malformed input or a grid under 2 × 2.
  * @see Frankot, R. T. & Chellappa, R. (1988), "A method for enforcing integrability in
  *   shape from shading algorithms", IEEE TPAMI 10(4), 439–451 (the integrability
  *   condition ∂p/∂y = ∂q/∂x).
@@ -119,7 +119,7 @@ export function integrabilityMap(p: Grid, q: Grid, options?: DiagnosticOptions):
  * @param q - Slopes ∂h/∂y.
  * @param options - See {@link DiagnosticOptions}.
  * @returns Per-sample residual maps and their RMS, plus the forward-difference pair RMS.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for malformed or mismatched input.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for malformed or mismatched input.
  * @see Harker, M. & O'Leary, P. (2008), "Least squares surface reconstruction from
  *   measured gradient fields", CVPR 2008 (the gradient residual of a reconstruction).
  * @example

@@ -35,7 +35,7 @@ export interface PreparedFrankotChellappa {
   /**
    * Integrate one frame; `p` and `q` must have the prepared size and spacing.
    *
-   * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for bad grids.
+   * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for bad grids.
    */
   solve(p: Grid, q: Grid, options?: FrankotChellappaFrameOptions): IntegrationResult;
 }
@@ -300,7 +300,7 @@ function inverseRows(
  *
  * @param spec - Grid geometry (`width`, `height`, `dx`, `dy`).
  * @returns The prepared solver; its `solve` allocates only the output (none with `out`).
- * @throws {@link MeniscusRangeError} for sizes or spacings out of range.
+ * @throws {@link core!MeniscusRangeError} for sizes or spacings out of range.
  * @see Frankot, R. T. & Chellappa, R. (1988), "A method for enforcing integrability in
  *   shape from shading algorithms", IEEE TPAMI 10(4), 439–451.
  * @example
@@ -342,8 +342,8 @@ export function prepareFrankotChellappa(spec: GridSpec): PreparedFrankotChellapp
  * @param options - See {@link FrankotChellappaOptions}.
  * @returns Heights in metres on the slopes' grid; `rmsResidual` is the RMS misfit of the
  *   forward-difference pairs (see the module conventions); `iterations` 0.
- * @throws {@link MeniscusTypeError} when a grid is malformed or the sizes differ.
- * @throws {@link MeniscusRangeError} for non-finite slopes or a mismatched geometry.
+ * @throws {@link core!MeniscusTypeError} when a grid is malformed or the sizes differ.
+ * @throws {@link core!MeniscusRangeError} for non-finite slopes or a mismatched geometry.
  * @see Frankot, R. T. & Chellappa, R. (1988), "A method for enforcing integrability in
  *   shape from shading algorithms", IEEE TPAMI 10(4), 439–451.
  * @see Bluestein, L. I. (1970), "A linear filtering approach to the computation of

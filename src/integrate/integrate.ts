@@ -44,7 +44,7 @@ export const INTEGRATION_METHODS: readonly IntegrationMethod[] = [
 
 /**
  * Options of {@link integrate}. Each method reads the options it documents and refuses
- * the ones it cannot honour (with a {@link MeniscusTypeError} naming the option), so a
+ * the ones it cannot honour (with a {@link core!MeniscusTypeError} naming the option), so a
  * mask is never silently ignored.
  */
 export interface IntegrateOptions {
@@ -182,8 +182,8 @@ function run(method: IntegrationMethod, p: Grid, q: Grid, o: Record<string, unkn
  * @param q - Slopes ∂h/∂y, same size and geometry.
  * @param options - See {@link IntegrateOptions}.
  * @returns The method's result.
- * @throws {@link MeniscusRangeError} for an unknown method; otherwise what the method throws;
- *   {@link MeniscusTypeError} for an option the method does not use.
+ * @throws {@link core!MeniscusRangeError} for an unknown method; otherwise what the method throws;
+ *   {@link core!MeniscusTypeError} for an option the method does not use.
  * @see Frankot & Chellappa (1988), IEEE TPAMI 10(4), 439; Simchony, Chellappa & Shao
  *   (1990), IEEE TPAMI 12(5), 435; Harker & O'Leary (2008, 2011), CVPR; Southwell (1980),
  *   JOSA 70, 998; Fried (1977), JOSA 67, 370; Hudgin (1977), JOSA 67, 375.
@@ -247,7 +247,7 @@ export interface PreparedIntegrator {
  * @param spec - Grid geometry of the slopes.
  * @param options - See {@link PrepareIntegratorOptions}.
  * @returns The prepared integrator.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad geometry or options.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad geometry or options.
  * @see Briggs, Henson & McCormick (2000), "A Multigrid Tutorial", SIAM (set-up once,
  *   solve many).
  * @example

@@ -162,7 +162,7 @@ export interface PreparedLeastSquares {
    * Integrate one frame. With `warmStart` at set-up, the previous frame's heights start
    * the iteration.
    *
-   * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for bad grids or options.
+   * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for bad grids or options.
    */
   solve(p: Grid, q: Grid, options?: LeastSquaresFrameOptions): LeastSquaresResult;
 }
@@ -832,8 +832,8 @@ function systemFor(like: Grid, c: CheckedSetup): LsqSystem {
  * @param q - Slopes ∂h/∂y at the samples, same size and geometry as `p`.
  * @param options - See {@link LeastSquaresOptions}.
  * @returns Heights (metres, 0 outside the mask) with diagnostics; see {@link LeastSquaresResult}.
- * @throws {@link MeniscusTypeError} for malformed grids, masks or options.
- * @throws {@link MeniscusRangeError} for non-finite slopes inside the mask, a mask with
+ * @throws {@link core!MeniscusTypeError} for malformed grids, masks or options.
+ * @throws {@link core!MeniscusRangeError} for non-finite slopes inside the mask, a mask with
  *   no valid sample, negative or all-zero weights, known heights outside the mask.
  * @see Harker, M. & O'Leary, P. (2008), "Least squares surface reconstruction from
  *   measured gradient fields", CVPR 2008; Harker, M. & O'Leary, P. (2011), "Least
@@ -926,7 +926,7 @@ class PreparedLsq implements PreparedLeastSquares {
  * @param spec - Grid geometry (`width`, `height`, `dx`, `dy`, origin).
  * @param options - The fixed part of {@link LeastSquaresOptions} plus `warmStart`.
  * @returns The prepared solver.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} as {@link integrateLeastSquares}.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} as {@link integrateLeastSquares}.
  * @see Harker, M. & O'Leary, P. (2008), "Least squares surface reconstruction from
  *   measured gradient fields", CVPR 2008.
  * @see Briggs, W. L., Henson, V. E. & McCormick, S. F. (2000), "A Multigrid Tutorial",

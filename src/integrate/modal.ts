@@ -43,7 +43,7 @@ export const MAX_LEGENDRE_ORDER = 30;
  *
  * @param j - Noll index, an integer ≥ 1.
  * @returns `{ n, m }`.
- * @throws {@link MeniscusRangeError} when `j` is not an integer ≥ 1.
+ * @throws {@link core!MeniscusRangeError} when `j` is not an integer ≥ 1.
  * @see Noll, R. J. (1976), "Zernike polynomials and atmospheric turbulence", J. Opt.
  *   Soc. Am. 66(3), 207–211, Eq. (2)–(3) and Table I.
  * @example
@@ -166,7 +166,7 @@ function zernikeEvaluator(terms: number): (xn: number, yn: number, v: Float64Arr
  * @param x - Unit-disc x (`ρ cos θ`).
  * @param y - Unit-disc y (`ρ sin θ`).
  * @returns `{ value, dx, dy }`, the derivatives with respect to the unit-disc `x`, `y`.
- * @throws {@link MeniscusRangeError} for a bad index or non-finite coordinates.
+ * @throws {@link core!MeniscusRangeError} for a bad index or non-finite coordinates.
  * @see Noll, R. J. (1976), "Zernike polynomials and atmospheric turbulence", J. Opt.
  *   Soc. Am. 66(3), 207–211, Eq. (1)–(4).
  * @example
@@ -224,8 +224,8 @@ function checkDisc(fn: string, disc: unknown): ZernikeDisc {
  * @param y - World y, same length as `x`.
  * @param disc - The footprint the coefficients refer to.
  * @returns Heights and slopes at the points.
- * @throws {@link MeniscusTypeError} for non-`Float64Array` inputs or different lengths.
- * @throws {@link MeniscusRangeError} for more than {@link MAX_ZERNIKE_TERMS} terms, an empty
+ * @throws {@link core!MeniscusTypeError} for non-`Float64Array` inputs or different lengths.
+ * @throws {@link core!MeniscusRangeError} for more than {@link MAX_ZERNIKE_TERMS} terms, an empty
  *   coefficient array, non-finite values or a bad disc.
  * @see Noll, R. J. (1976), J. Opt. Soc. Am. 66(3), 207–211.
  * @example
@@ -422,8 +422,8 @@ function fitModes(
  * @param q - y-slopes, same grid as `p`.
  * @param options - Mask, number of terms, disc.
  * @returns Heights, coefficients (metres) and the disc.
- * @throws {@link MeniscusTypeError} for grids of different sizes or wrong types.
- * @throws {@link MeniscusRangeError} for non-finite slopes at valid samples, a mask with no
+ * @throws {@link core!MeniscusTypeError} for grids of different sizes or wrong types.
+ * @throws {@link core!MeniscusRangeError} for non-finite slopes at valid samples, a mask with no
  *   valid sample, a bad `terms`, `center` or `radius`, or too few samples (or too small a
  *   footprint) to determine all the modes.
  * @see Noll, R. J. (1976), "Zernike polynomials and atmospheric turbulence", J. Opt.
@@ -510,7 +510,7 @@ export interface LegendreRectangle {
  *
  * @param order - Largest total degree, 0 … {@link MAX_LEGENDRE_ORDER}.
  * @returns Pairs `[a, b]`; `(order + 1)(order + 2)/2` of them.
- * @throws {@link MeniscusRangeError} for a bad order.
+ * @throws {@link core!MeniscusRangeError} for a bad order.
  * @example
  * ```ts
  * legendreModes(1); // [[0, 0], [1, 0], [0, 1]]
@@ -598,7 +598,7 @@ function checkRect(fn: string, rect: unknown): LegendreRectangle {
  * @param y - World y, same length.
  * @param rectangle - The rectangle the coefficients refer to.
  * @returns Heights and slopes at the points.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for wrong lengths, non-finite
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for wrong lengths, non-finite
  *   values or a bad rectangle.
  * @see Abramowitz, M. & Stegun, I. A. (1964), Handbook of Mathematical Functions, 22.7.10
  *   (the recurrence) and 8.5.3 (the derivative recurrence).
@@ -689,8 +689,8 @@ export interface LegendreResult extends IntegrationResult {
  * @param q - y-slopes, same grid as `p` (at least 2 × 2 samples).
  * @param options - Mask and order.
  * @returns Heights, coefficients (metres), order and rectangle.
- * @throws {@link MeniscusTypeError} for grids of different sizes or wrong types.
- * @throws {@link MeniscusRangeError} for non-finite slopes at valid samples, a mask with no
+ * @throws {@link core!MeniscusTypeError} for grids of different sizes or wrong types.
+ * @throws {@link core!MeniscusRangeError} for non-finite slopes at valid samples, a mask with no
  *   valid sample, a grid narrower than 2 samples, a bad order, or samples that do not
  *   determine every mode.
  * @see Abramowitz, M. & Stegun, I. A. (1964), Handbook of Mathematical Functions, §22

@@ -91,8 +91,8 @@ export interface ScatteredResult extends IntegrationResult {
  * @param grid - The output grid: at least 2 × 2 nodes.
  * @param options - Smoothness, region and solver controls.
  * @returns Heights on the grid, with diagnostics.
- * @throws {@link MeniscusTypeError} for non-`Float64Array` fields or arrays of different lengths.
- * @throws {@link MeniscusRangeError} for non-finite positions or slopes, negative weights,
+ * @throws {@link core!MeniscusTypeError} for non-`Float64Array` fields or arrays of different lengths.
+ * @throws {@link core!MeniscusRangeError} for non-finite positions or slopes, negative weights,
  *   a grid smaller than 2 × 2, a non-positive smoothness, or no usable sample on the grid.
  * @see Harker, M. & O'Leary, P. (2008), "Least squares surface reconstruction from
  *   measured gradient fields", CVPR 2008 (regularised least-squares integration).

@@ -134,8 +134,8 @@ function solveAndPack(
  * @param q - y-slopes `∂h/∂y`, same grid as `p`.
  * @param options - Mask, weights and solver controls.
  * @returns Heights (metres) on the apertures, with diagnostics.
- * @throws {@link MeniscusTypeError} for grids of different sizes or wrong types.
- * @throws {@link MeniscusRangeError} for different spacing or origin, non-finite slopes at
+ * @throws {@link core!MeniscusTypeError} for grids of different sizes or wrong types.
+ * @throws {@link core!MeniscusRangeError} for different spacing or origin, non-finite slopes at
  *   valid samples, negative or non-finite weights, a mask with no valid sample, all
  *   weights zero, or no pair of neighbouring usable apertures.
  * @see Southwell, W. H. (1980), "Wave-front estimation from wave-front slope
@@ -237,7 +237,7 @@ function rangeErrorNoPairs(fn: string): never {
  * @param q - y-slopes on the links below each point, same grid as `p`.
  * @param options - Mask (of height points), weights and solver controls.
  * @returns Heights (metres) at the points.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} as {@link integrateSouthwell}.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} as {@link integrateSouthwell}.
  * @see Hudgin, R. H. (1977), "Wave-front reconstruction for compensated imaging",
  *   J. Opt. Soc. Am. 67(3), 375–378 (the difference geometry).
  * @example
@@ -383,7 +383,7 @@ function relabel(parent: Int32Array, used: Uint8Array): { labels: Int32Array; co
  * @param q - y-slopes of the subapertures, same grid as `p`.
  * @param options - Mask (of subapertures), weights and solver controls.
  * @returns Heights (metres) on the `(W + 1) × (H + 1)` corner grid.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} as {@link integrateSouthwell}
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} as {@link integrateSouthwell}
  *   (a single valid subaperture is enough here).
  * @see Fried, D. L. (1977), "Least-square fitting a wave-front distortion estimate to an
  *   array of phase-difference measurements", J. Opt. Soc. Am. 67(3), 370–375 (the

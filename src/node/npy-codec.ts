@@ -125,7 +125,7 @@ export interface NpyDecodeOptions {
 
 /**
  * The largest number of elements one array may have: four planes of
- * {@link LIMITS}.maxSamples (an RGBA image of the largest size).
+ * {@link core!LIMITS}.maxSamples (an RGBA image of the largest size).
  */
 export const NPY_MAX_ELEMENTS = 4 * LIMITS.maxSamples;
 

@@ -191,7 +191,7 @@ export function writePng(path: string, image: Image, options?: PngWriteOptions):
  * @param options - See {@link PngReadOptions}.
  * @returns The image, with the file's channels (1 grey, 2 grey + alpha, 3 RGB, 4 RGBA).
  * @throws {@link core!MeniscusRangeError} for bytes that are not a valid PNG, or an image
- *   larger than {@link LIMITS} (checked from the header before decoding).
+ *   larger than {@link core!LIMITS} (checked from the header before decoding).
  * @see ISO/IEC 15948:2004 (PNG); IEC 61966-2-1:1999 (sRGB) for `transfer: 'srgb'`.
  * @example
  * ```ts

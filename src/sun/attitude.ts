@@ -50,7 +50,7 @@ const Q_NED_TO_ENU: Quaternion = [0, SQRT1_2, SQRT1_2, 0];
  * Check an attitude object at a public boundary.
  *
  * @returns The attitude.
- * @throws {@link MeniscusTypeError} when it is not an object; {@link MeniscusRangeError}
+ * @throws {@link core!MeniscusTypeError} when it is not an object; {@link core!MeniscusRangeError}
  *   when an angle is not finite.
  * @example
  * ```ts
@@ -72,7 +72,7 @@ export function checkAttitude(fn: string, parameter: string, value: unknown): At
  * Check a quaternion at a public boundary and return it normalised.
  *
  * @returns A unit quaternion (a new tuple).
- * @throws {@link MeniscusTypeError} for a wrong shape; {@link MeniscusRangeError} for
+ * @throws {@link core!MeniscusTypeError} for a wrong shape; {@link core!MeniscusRangeError} for
  *   non-finite components or zero length.
  * @example
  * ```ts
@@ -130,7 +130,7 @@ export function quaternionConjugate(q: Quaternion): MutableQuaternion {
  *
  * @param q - A quaternion `[w, x, y, z]` of non-zero length.
  * @returns The rotation matrix, row-major.
- * @throws {@link MeniscusRangeError} for a zero or non-finite quaternion.
+ * @throws {@link core!MeniscusRangeError} for a zero or non-finite quaternion.
  * @see Shoemake, K. (1985), "Animating rotation with quaternion curves", SIGGRAPH 19(3), 245.
  * @example
  * ```ts
@@ -158,7 +158,7 @@ export function quaternionToMatrix(q: Quaternion): Mat3 {
  *
  * @param m - A rotation matrix (orthonormal within 1e-6, determinant +1).
  * @returns The quaternion `[w, x, y, z]`.
- * @throws {@link MeniscusRangeError} when `m` is not a rotation.
+ * @throws {@link core!MeniscusRangeError} when `m` is not a rotation.
  * @see Shepperd, S. W. (1978), "Quaternion from rotation matrix", Journal of Guidance and
  *   Control 1(3), 223–224.
  * @example
@@ -204,7 +204,7 @@ function nedMatrix(h: number, p: number, r: number): Mat3 {
  * @param attitude - Heading, pitch, roll in radians (intrinsic Z-Y′-X″ from north-east-down;
  *   heading clockwise from north, bow-up pitch and starboard-down roll positive).
  * @returns `M`, row-major.
- * @throws {@link MeniscusRangeError} for a non-finite angle.
+ * @throws {@link core!MeniscusRangeError} for a non-finite angle.
  * @see Diebel, J. (2006), "Representing attitude: Euler angles, unit quaternions, and
  *   rotation vectors", Stanford University, eq. 67 (the 3-2-1 sequence).
  * @example
@@ -225,7 +225,7 @@ export function attitudeToMatrix(attitude: Attitude): Mat3 {
  *
  * @param attitude - Heading, pitch, roll in radians (see {@link attitudeToMatrix}).
  * @returns The unit quaternion `[w, x, y, z]` with `w ≥ 0`.
- * @throws {@link MeniscusRangeError} for a non-finite angle.
+ * @throws {@link core!MeniscusRangeError} for a non-finite angle.
  * @see Diebel, J. (2006), "Representing attitude: Euler angles, unit quaternions, and
  *   rotation vectors", Stanford University, eq. 84.
  * @example
@@ -263,7 +263,7 @@ export interface AttitudeFromRotationOptions {
  * @param m - The rotation `R_ENU←platform`.
  * @param options - Gimbal-lock tolerance.
  * @returns The attitude.
- * @throws {@link MeniscusRangeError} when `m` is not a rotation.
+ * @throws {@link core!MeniscusRangeError} when `m` is not a rotation.
  * @see Diebel, J. (2006), "Representing attitude: Euler angles, unit quaternions, and
  *   rotation vectors", Stanford University, eq. 72.
  * @example
@@ -304,7 +304,7 @@ function attitudeFromMatrixKernel(m: Mat3, tol: number): Attitude {
  * @param q - A quaternion `[w, x, y, z]` (normalised here).
  * @param options - Gimbal-lock tolerance.
  * @returns The attitude.
- * @throws {@link MeniscusRangeError} for a zero or non-finite quaternion.
+ * @throws {@link core!MeniscusRangeError} for a zero or non-finite quaternion.
  * @example
  * ```ts
  * quaternionToAttitude(attitudeToQuaternion({ heading: 3, pitch: -0.4, roll: 1 }));
@@ -322,7 +322,7 @@ export function quaternionToAttitude(q: Quaternion, options?: AttitudeFromRotati
  *
  * @param attitude - Heading/pitch/roll (radians, see {@link attitudeToMatrix}) or a quaternion.
  * @returns `R_ENU←platform`.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * platformRotation([0, Math.SQRT1_2, Math.SQRT1_2, 0]); // level, bow to north
@@ -339,7 +339,7 @@ export function platformRotation(attitude: AttitudeInput): Mat3 {
  * @param attitude - The platform's attitude (see {@link attitudeToMatrix}).
  * @param v - The vector in ENU.
  * @returns The vector in the platform frame.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * enuToPlatform({ heading: 0, pitch: 0, roll: 0 }, [0, 0, 1]); // up = [0, 0, -1] (z is down)
@@ -357,7 +357,7 @@ export function enuToPlatform(attitude: AttitudeInput, v: Vec3): MutableVec3 {
  * @param attitude - The platform's attitude (see {@link attitudeToMatrix}).
  * @param v - The vector in the platform frame.
  * @returns The vector in ENU.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * platformToEnu({ heading: Math.PI / 2, pitch: 0, roll: 0 }, [1, 0, 0]); // ≈ [1, 0, 0] (east)

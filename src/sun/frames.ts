@@ -42,7 +42,7 @@ function mul(a: Mat3, b: Mat3): Mat3 {
  * @param attitude - The platform's attitude (angles in radians or a quaternion).
  * @param mount - `R_platform←camera` (a proper rotation).
  * @returns `R_ENU←camera`, row-major.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * cameraRotation({ heading: 0, pitch: 0, roll: 0 }, MOUNT_LOOKING_UP); // camera z = ENU up
@@ -60,7 +60,7 @@ export function cameraRotation(attitude: AttitudeInput, mount: Mat3): Mat3 {
  * @param mount - `R_platform←camera`.
  * @param v - The vector in ENU (e.g. `toSun`).
  * @returns The vector in the camera frame (x right, y down, z forward).
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * enuToCamera({ heading: 0, pitch: 0, roll: 0 }, MOUNT_LOOKING_UP, [0, 0, 1]); // [0, 0, 1]
@@ -79,7 +79,7 @@ export function enuToCamera(attitude: AttitudeInput, mount: Mat3, v: Vec3): Muta
  * @param mount - `R_platform←camera`.
  * @param v - The vector in the camera frame.
  * @returns The vector in ENU.
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * cameraToEnu({ heading: 0, pitch: 0, roll: 0 }, MOUNT_LOOKING_DOWN, [0, 0, 1]); // [0, 0, -1]
@@ -100,7 +100,7 @@ export function cameraToEnu(attitude: AttitudeInput, mount: Mat3, v: Vec3): Muta
  * @param lever - The camera centre relative to the reference point, platform frame
  *   (forward, starboard, down), metres. @defaultValue [0, 0, 0]
  * @returns The camera pose (`rotation` = `R_ENU←camera`).
- * @throws {@link MeniscusRangeError} / {@link MeniscusTypeError} for bad input.
+ * @throws {@link core!MeniscusRangeError} / {@link core!MeniscusTypeError} for bad input.
  * @example
  * ```ts
  * const pose = cameraPoseOnPlatform({ heading: 1, pitch: 0.05, roll: -0.02 }, MOUNT_LOOKING_UP, [0, 0, -1.5]);
@@ -143,7 +143,7 @@ export interface UnderwaterLightOptions {
  * @returns The unit travel direction in the water (pointing down), or `null` when the
  *   light is at or below the horizon (`toLight[2] ≤ 0`), where no light enters through
  *   a level surface.
- * @throws {@link MeniscusRangeError} for a zero or non-finite vector or an index ≤ 0.
+ * @throws {@link core!MeniscusRangeError} for a zero or non-finite vector or an index ≤ 0.
  * @see Snell's law in vector form (see the optics module's `refract`).
  * @example
  * ```ts

@@ -126,7 +126,7 @@ export function createSunLight(time: TimeInput, site: Site, options?: SunPositio
  * @param toLight - Direction towards the lamp, world frame (normalised here).
  * @param angularRadius - The half-angle of the beam's divergence, radians. @defaultValue 0
  * @returns The provider.
- * @throws {@link MeniscusRangeError} for a zero or non-finite direction or a negative radius.
+ * @throws {@link core!MeniscusRangeError} for a zero or non-finite direction or a negative radius.
  * @example
  * ```ts
  * const lamp = createCollimatedLight([0, 0, 1]); // light falling straight down
@@ -163,8 +163,8 @@ export function createCollimatedLight(toLight: Vec3, angularRadius = 0): Collima
  * @param position - The lamp's centre, world frame, metres.
  * @param radius - The emitter's radius, metres. @defaultValue 0
  * @returns The provider. Its `toLight`, `toLightBatch` and `angularRadius` throw a
- *   {@link MeniscusRangeError} for a point at the lamp (or inside the emitter, for the radius).
- * @throws {@link MeniscusRangeError} for a non-finite position or a negative radius.
+ *   {@link core!MeniscusRangeError} for a point at the lamp (or inside the emitter, for the radius).
+ * @throws {@link core!MeniscusRangeError} for a non-finite position or a negative radius.
  * @example
  * ```ts
  * const lamp = createPointLight([0, 0, 2]);

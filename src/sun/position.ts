@@ -115,7 +115,7 @@ export interface SunEquatorialOptions {
  * @param site - The site.
  * @param parameter - The parameter's name. @defaultValue "site"
  * @returns The site with its height filled in.
- * @throws {@link MeniscusRangeError} or {@link MeniscusTypeError} for a latitude outside
+ * @throws {@link core!MeniscusRangeError} or {@link core!MeniscusTypeError} for a latitude outside
  *   [−90, 90], a longitude outside [−180, 180] or a non-finite height.
  * @example
  * ```ts
@@ -140,8 +140,8 @@ export function checkSite(fn: string, site: unknown, parameter = 'site'): Requir
  * @param time - A `Date` or milliseconds since the Unix epoch (UTC).
  * @param parameter - The parameter's name. @defaultValue "time"
  * @returns The time as a `Date` (a new object).
- * @throws {@link MeniscusRangeError} for an invalid `Date` or a non-finite number;
- *   {@link MeniscusTypeError} for anything else.
+ * @throws {@link core!MeniscusRangeError} for an invalid `Date` or a non-finite number;
+ *   {@link core!MeniscusTypeError} for anything else.
  * @example
  * ```ts
  * checkTime('mine', Date.UTC(2024, 5, 21)); // a Date
@@ -174,7 +174,7 @@ export function checkTime(fn: string, time: unknown, parameter = 'time'): Date {
  * @param temperatureC - Temperature, °C (> −273).
  * @param angularRadius - The disc's angular radius, radians, for the cut-off. @defaultValue 0.26667°
  * @returns The refraction to add to the elevation, radians (≥ 0).
- * @throws {@link MeniscusRangeError} for non-finite input, a pressure ≤ 0 or a temperature ≤ −273 °C.
+ * @throws {@link core!MeniscusRangeError} for non-finite input, a pressure ≤ 0 or a temperature ≤ −273 °C.
  * @see Sæmundsson, Þ. (1986), "Atmospheric refraction", Sky and Telescope 72, 70.
  * @see Reda, I. & Andreas, A. (2004), "Solar position algorithm for solar radiation
  *   applications", Solar Energy 76(5), 577–589, eq. 42.
@@ -228,9 +228,9 @@ function wrap2Pi(a: number): number {
  * @param site - The observer's latitude, longitude and height.
  * @param options - Refraction and ΔT.
  * @returns The position.
- * @throws {@link MeniscusRangeError} for an invalid date, a latitude outside [−90, 90], a
+ * @throws {@link core!MeniscusRangeError} for an invalid date, a latitude outside [−90, 90], a
  *   longitude outside [−180, 180], a non-finite height, pressure ≤ 0, temperature ≤ −273 °C
- *   or a non-finite ΔT; {@link MeniscusTypeError} for arguments of the wrong type.
+ *   or a non-finite ΔT; {@link core!MeniscusTypeError} for arguments of the wrong type.
  * @see Reda, I. & Andreas, A. (2004), "Solar position algorithm for solar radiation
  *   applications", Solar Energy 76(5), 577–589 (the refraction model and its worked example).
  * @see Bretagnon, P. & Francou, G. (1988), "Planetary theories in rectangular and
@@ -291,7 +291,7 @@ export function sunPosition(time: TimeInput, site: Site, options?: SunPositionOp
  * @param time - UTC instant, a `Date` or milliseconds since the Unix epoch.
  * @param options - Site and ΔT.
  * @returns Right ascension, declination (radians) and distance (metres).
- * @throws {@link MeniscusRangeError} for an invalid date, a bad site or a non-finite ΔT.
+ * @throws {@link core!MeniscusRangeError} for an invalid date, a bad site or a non-finite ΔT.
  * @see Meeus, J. (1998), Astronomical Algorithms, 2nd ed., Willmann-Bell, chapter 25
  *   ("Solar coordinates").
  * @example
