@@ -10,5 +10,8 @@ export * from './optics/index.js';
 export * from './sun/index.js';
 export * from './camera/index.js';
 export * from './integrate/index.js';
+export * from './surface/index.js';
+export * from './waves/index.js';
+export * from './sensor/index.js';
 export * from './metrics/index.js';
 export * from './viz/index.js';

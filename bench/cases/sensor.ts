@@ -1,0 +1,145 @@
+/**
+ * Sensor benchmarks. `spots.centroid` follows the peers script (same image recipe,
+ * threshold and estimator: label the pixels 100 counts above the known background of 20,
+ * intensity-weighted centre of each component); `sensor.frame` runs one frame from pixels
+ * to a height map with one refinement pass.
+ */
+import type { BenchCase } from '../case.js';
+import { createImage, createRng } from '../../src/core/index.js';
+import { createSinusoidSurface } from '../../src/surface/index.js';
+import { createCollimatedLight } from '../../src/sun/index.js';
+import {
+  createApertureArray,
+  createPlaneView,
+  createSensorGeometry,
+  detectSpots,
+  measureFrame,
+  referenceSpots,
+  renderSpotFrame,
+  traceSpots,
+} from '../../src/sensor/index.js';
+import type { FrameMeasurement, SpotList } from '../../src/sensor/index.js';
+
+function centroidCase(): BenchCase {
+  return {
+    name: 'spots.centroid',
+    size: 2048,
+    quickSize: 256,
+    prepare(n: number) {
+      // N × N image, 64 × 64 Gaussian spots (σ 2 px, peak 1000) at jittered positions on
+      // a background of 20, Gaussian noise σ 2 — the peers recipe (its generator differs).
+      const g = 64;
+      const pitch = n / g;
+      const rng = createRng(11);
+      const cx = new Float64Array(g * g), cy = new Float64Array(g * g);
+      for (let j = 0; j < g; j++) {
+        for (let i = 0; i < g; i++) {
+          cx[j * g + i] = (i + 0.5) * pitch + rng.uniform(-0.2, 0.2) * pitch;
+          cy[j * g + i] = (j + 0.5) * pitch + rng.uniform(-0.2, 0.2) * pitch;
+        }
+      }
+      const img = createImage(n, n);
+      img.data.fill(20);
+      const r = 8;
+      for (let k = 0; k < g * g; k++) {
+        const x0 = cx[k]!, y0 = cy[k]!;
+        const ix = Math.round(x0), iy = Math.round(y0);
+        for (let v = Math.max(0, iy - r); v <= Math.min(n - 1, iy + r); v++) {
+          for (let u = Math.max(0, ix - r); u <= Math.min(n - 1, ix + r); u++) {
+            img.data[v * n + u]! += 1000 * Math.exp(-((u - x0) ** 2 + (v - y0) ** 2) / 8);
+          }
+        }
+      }
+      for (let k = 0; k < img.data.length; k++) img.data[k]! += rng.normal(0, 2);
+      return {
+        run: () => detectSpots(img, { background: 20, threshold: 100, method: 'thresholded' }),
+        error(result: unknown) {
+          // RMS distance from each true spot to its nearest detection, pixels (as the peer).
+          const s = result as SpotList;
+          const cell = new Int32Array(g * g).fill(-1);
+          for (let k = 0; k < s.count; k++) {
+            const i = Math.min(g - 1, Math.max(0, Math.floor(s.x[k]! / pitch)));
+            const j = Math.min(g - 1, Math.max(0, Math.floor(s.y[k]! / pitch)));
+            cell[j * g + i] = k;
+          }
+          let se = 0;
+          for (let t = 0; t < g * g; t++) {
+            let best = Infinity;
+            const ti = t % g, tj = Math.floor(t / g);
+            for (let dj = -1; dj <= 1; dj++) {
+              for (let di = -1; di <= 1; di++) {
+                const i = ti + di, j = tj + dj;
+                if (i < 0 || j < 0 || i >= g || j >= g) continue;
+                const k = cell[j * g + i]!;
+                if (k >= 0) best = Math.min(best, (s.x[k]! - cx[t]!) ** 2 + (s.y[k]! - cy[t]!) ** 2);
+              }
+            }
+            se += best;
+          }
+          return Math.sqrt(se / (g * g));
+        },
+        notes: (ms: number) => `${((g * g) / ms / 1000).toFixed(2)} M spots/s`,
+      };
+    },
+  };
+}
+
+
+function frameCase(): BenchCase {
+  return {
+    name: 'sensor.frame',
+    size: 1024,
+    quickSize: 256,
+    iterations: 5,
+    prepare(n: number) {
+      // One n × n frame of a 32 × 32 hexagonal sensor under a sun-like light 40° from the
+      // zenith, over two crossing wave trains; pixels → height map with one refinement pass.
+      const domain = { xMin: -1, xMax: 1, yMin: -1, yMax: 1 };
+      const sea = createSinusoidSurface({
+        components: [
+          { amplitude: 0.004, kx: (2 * Math.PI) / 0.2, ky: (2 * Math.PI) / 0.5, phase: 0.3 },
+          { amplitude: 0.002, kx: (-2 * Math.PI) / 0.4, ky: (2 * Math.PI) / 0.15, phase: 1.1 },
+        ],
+        domain,
+      });
+      const th = (40 * Math.PI) / 180;
+      const light = createCollimatedLight([Math.sin(th), 0, Math.cos(th)], 0.00465);
+      const arr = createApertureArray({ lattice: 'hexagonal', pitch: 0.01, columns: 32, rows: 32, apertureDiameter: 0.001 });
+      const geometry = createSensorGeometry({ apertures: arr, maskDepth: 0.3, planeDistance: 0.05 });
+      const reference = referenceSpots(geometry, light);
+      let cx = 0, cy = 0;
+      for (let k = 0; k < arr.count; k++) {
+        cx += reference.x[k]! / arr.count;
+        cy += reference.y[k]! / arr.count;
+      }
+      const view = createPlaneView({ width: n, height: n, pixelSize: (0.36e-3 * 1024) / n, centre: [cx, cy] });
+      const frame = renderSpotFrame(traceSpots(geometry, sea, light), light, view, { photonsPerSpot: 30000, seed: 4 });
+      return {
+        run: () => measureFrame(frame.image, { geometry, light, view, reference }, { reconstruct: { maxIterations: 1 } }),
+        error(result: unknown) {
+          // RMS height error over the interior nodes (two-node border dropped), metres.
+          const h = (result as FrameMeasurement).reconstruction!.height;
+          let n2 = 0, mh = 0, mt = 0;
+          const inner = (i: number, j: number): boolean => i >= 2 && j >= 2 && i < h.width - 2 && j < h.height - 2;
+          for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
+            if (!inner(i, j)) continue;
+            mh += h.data[j * h.width + i]!;
+            mt += sea.height(h.x0 + i * h.dx, h.y0 + j * h.dy);
+            n2++;
+          }
+          mh /= n2;
+          mt /= n2;
+          let se = 0;
+          for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
+            if (!inner(i, j)) continue;
+            se += (h.data[j * h.width + i]! - mh - (sea.height(h.x0 + i * h.dx, h.y0 + j * h.dy) - mt)) ** 2;
+          }
+          return Math.sqrt(se / n2);
+        },
+        notes: (ms: number) => `${(1000 / ms).toFixed(2)} frames/s (1 refinement pass)`,
+      };
+    },
+  };
+}
+
+export const cases: BenchCase[] = [centroidCase(), frameCase()];
