@@ -8,7 +8,7 @@
 import { checkFinite, checkFloat64Array, checkNonNegative, checkOneOf, checkOptions, checkPositive, rangeError, typeError } from '../core/index.js';
 import type { MutableVec3 } from '../core/index.js';
 import { refract } from '../optics/index.js';
-import { normalFromSlopes } from '../surface/index.js';
+import { normalFromSlopes } from '../optics/index.js';
 import type { LatticeKind } from './lattice.js';
 
 /** The sea the sensor is meant for. Give any of these; more gives a fuller budget. */

@@ -7,8 +7,8 @@
  */
 import { checkOptions, checkPositive, checkInteger, Status, typeError } from '../core/index.js';
 import type { MutableVec3 } from '../core/index.js';
-import { refract } from '../optics/index.js';
-import { checkSurface, createPlaneSurface, intersectSurface, normalFromSlopes } from '../surface/index.js';
+import { normalFromSlopes, refract } from '../optics/index.js';
+import { checkSurface, createPlaneSurface, intersectSurface } from '../surface/index.js';
 import type { Surface } from '../surface/index.js';
 import type { GuideLight } from '../sun/index.js';
 import type { SensorGeometry } from './geometry.js';

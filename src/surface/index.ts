@@ -6,7 +6,7 @@
  * @module surface
  */
 export type { Surface, SurfaceBounds, SurfaceDomain } from './types.js';
-export { surfaceNormal, normalFromSlopes } from './types.js';
+export { surfaceNormal } from './types.js';
 export type {
   PlaneSurfaceOptions,
   SinusoidComponent,

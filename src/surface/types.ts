@@ -98,17 +98,7 @@ export function surfaceNormal(surface: Surface, x: number, y: number): MutableVe
   return normalFromSlopes(g[0]!, g[1]!);
 }
 
-/**
- * The unit normal `(−p, −q, 1) / √(1 + p² + q²)` for slopes `p`, `q`.
- *
- * @param p - Slope along x, `∂h/∂x`.
- * @param q - Slope along y, `∂h/∂y`.
- * @returns The unit normal, pointing from water into air.
- * @example
- * ```ts
- * normalFromSlopes(0, 0); // [0, 0, 1]
- * ```
- */
+/** @internal The unit normal (−p, −q, 1)/√(1 + p² + q²), unchecked (the public, checked form is optics' `normalFromSlopes`). */
 export function normalFromSlopes(p: number, q: number): MutableVec3 {
   const s = 1 / Math.sqrt(1 + p * p + q * q);
   return [-p * s, -q * s, s];

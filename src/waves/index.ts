@@ -35,11 +35,9 @@ export { prepareRandomSea, synthesizeSea, seaSurface } from './synthesis.js';
 export type {
   SlopeStatisticsOptions,
   SlopeStatistics,
-  SlopeHistogramOptions,
-  SlopeHistogram,
   CoxMunkOptions,
   CoxMunkSlopes,
 } from './statistics.js';
-export { significantWaveHeight, slopeStatistics, slopeHistogram, coxMunkMeanSquareSlope } from './statistics.js';
+export { significantWaveHeight, slopeStatistics, coxMunkMeanSquareSlope } from './statistics.js';
 export type { SeaPreset } from './presets.js';
 export { tankSeaPreset, harbourSeaPreset } from './presets.js';

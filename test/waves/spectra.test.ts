@@ -14,7 +14,6 @@ import {
   piersonMoskowitzSpectrum,
   seaMoments,
   significantWaveHeight,
-  slopeHistogram,
   slopeStatistics,
   spectralMoments,
 } from '../../src/waves/index.js';
@@ -210,13 +209,4 @@ describe('field statistics', () => {
     expect(s.meanSquareSlope).toBeCloseTo((a * k) ** 2 / 2, 2);
   });
 
-  it('histogram counts and density', () => {
-    const gr = createGrid({ width: 4, height: 1 }, new Float64Array([-1, 0, 0.5, 1]));
-    const h = slopeHistogram(gr, { bins: 2, min: -1, max: 1 });
-    expect(Array.from(h.counts)).toEqual([1, 3]);
-    expect(Array.from(h.density)).toEqual([0.25, 0.75]);
-    expect(h.outside).toBe(0);
-    expect(slopeHistogram(gr, { bins: 2, min: 0, max: 1 }).outside).toBe(1);
-    expect(() => slopeHistogram(gr, { min: 1, max: 0 })).toThrow(MeniscusRangeError);
-  });
 });
