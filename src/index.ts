@@ -13,5 +13,7 @@ export * from './integrate/index.js';
 export * from './surface/index.js';
 export * from './waves/index.js';
 export * from './sensor/index.js';
+export * from './imaging/index.js';
 export * from './metrics/index.js';
+export * from './pipeline/index.js';
 export * from './viz/index.js';

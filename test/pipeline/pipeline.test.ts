@@ -1,0 +1,95 @@
+import { describe, it, expect } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { createImage, MeniscusRangeError, MeniscusTypeError } from '../../src/core/index.js';
+import { psnr, ssim } from '../../src/metrics/index.js';
+import { harbourScenario, preparePipeline, processFrame, simulateScenario, tankScenario, validateScenario } from '../../src/pipeline/index.js';
+import type { Scenario } from '../../src/pipeline/index.js';
+
+const json = (name: string): unknown => JSON.parse(readFileSync(new URL(`../../examples/scenarios/${name}.json`, import.meta.url), 'utf8'));
+
+describe('shipped scenarios', () => {
+  it('the JSON files equal the exported defaults', () => {
+    expect(json('harbour')).toEqual(harbourScenario());
+    expect(json('tank')).toEqual(tankScenario());
+  });
+
+  it('validate and keep their values', () => {
+    for (const s of [harbourScenario(), tankScenario()]) {
+      const v = validateScenario(s);
+      expect(v.sea).toEqual(s.sea);
+      expect(v.sensor.pitch).toBe(s.sensor.pitch);
+    }
+  });
+});
+
+describe('validateScenario', () => {
+  const bad = (edit: (s: Record<string, any>) => void): (() => void) => () => {
+    const s = JSON.parse(JSON.stringify(tankScenario())) as Record<string, any>;
+    edit(s);
+    validateScenario(s);
+  };
+  it('names the field of every problem', () => {
+    expect(bad((s) => { s.sea.gridSpacing = -1; })).toThrow(/scenario\.sea\.gridSpacing/);
+    expect(bad((s) => { s.sea.gridSize = 300; })).toThrow(/scenario\.sea\.gridSize.*power of two/);
+    expect(bad((s) => { s.sensor.frame.width = 'big'; })).toThrow(/scenario\.sensor\.frame\.width/);
+    expect(bad((s) => { s.light.type = 'torch'; })).toThrow(/scenario\.light\.type/);
+    expect(bad((s) => { s.light.position = [0, 0, -1]; })).toThrow(/scenario\.light\.position\[2\]/);
+    expect(bad((s) => { s.camera.z = 0; })).toThrow(/scenario\.camera\.z/);
+    expect(bad((s) => { s.target.z = -0.5; })).toThrow(/scenario\.target\.z/);
+    expect(bad((s) => { s.sensor.apertureDiameter = 0.02; })).toThrow(/scenario\.sensor\.apertureDiameter/);
+    expect(bad((s) => { s.sea.wavelenght = 3; })).toThrow(/scenario\.sea\.wavelenght.*no such field/);
+    expect(bad((s) => { delete s.sensor; })).toThrow(MeniscusTypeError);
+    expect(bad((s) => { s.light = { type: 'sun' }; })).toThrow(/scenario\.site/);
+    expect(bad((s) => { s.light = { type: 'sun' }; s.site = { latitudeDeg: 10, longitudeDeg: 0 }; s.time = 'noon'; })).toThrow(/scenario\.time/);
+  });
+
+  it('refuses a sun below the horizon and a sea grid too small for the sensor', () => {
+    const night = harbourScenario();
+    night.time = '2025-06-21T01:00:00Z';
+    expect(() => simulateScenario(night)).toThrow(/scenario\.time.*above the horizon/);
+    const small: Scenario = tankScenario();
+    small.sea.gridSpacing = 0.001;
+    expect(() => simulateScenario(small)).toThrow(MeniscusRangeError);
+    expect(() => simulateScenario(small)).toThrow(/scenario\.sea\.gridSpacing/);
+  });
+});
+
+describe('processFrame on the simulated tank', () => {
+  const sim = simulateScenario(tankScenario());
+  const r = processFrame(sim.sensorFrame, sim.sceneImage, sim.setup, sim.options);
+
+  it('measures the surface and reports every stage', () => {
+    const d = r.diagnostics;
+    expect(d.spotsFound).toBeGreaterThan(900);
+    expect(d.spotsMatched).toBeGreaterThan(900);
+    expect(Number.isFinite(d.rmsResidual)).toBe(true);
+    expect(d.iterations).toBeGreaterThanOrEqual(1);
+    for (const k of ['detect', 'match', 'reconstruct', 'surface', 'correctTrace', 'correctRaster', 'correctSample', 'total'] as const) {
+      expect(d.timings[k]).toBeGreaterThanOrEqual(0);
+    }
+    expect(r.height).not.toBeNull();
+    expect(r.correction).not.toBeNull();
+  });
+
+  // Issue check: corrected-vs-truth SSIM and PSNR improve over uncorrected-vs-truth on the
+  // demo sea (scores: PSNR as common practice; SSIM of Wang et al. 2004, metrics area).
+  it('improves PSNR and SSIM against the flat-water truth', () => {
+    const c = r.correction!;
+    const mask = new Uint8Array(c.mask.length);
+    for (let p = 0; p < mask.length; p++) mask[p] = c.mask[p]! & sim.truthMask[p]!;
+    const before = { psnr: psnr(sim.sceneImage, sim.truthImage, { mask }), ssim: ssim(sim.sceneImage, sim.truthImage, { mask }).ssim };
+    const after = { psnr: psnr(c.image, sim.truthImage, { mask }), ssim: ssim(c.image, sim.truthImage, { mask }).ssim };
+    expect(after.psnr).toBeGreaterThan(before.psnr + 3);
+    expect(after.ssim).toBeGreaterThan(before.ssim + 0.05);
+  });
+
+  it('refuses a scene image of the wrong size, and survives an empty sensor frame', () => {
+    const pipe = preparePipeline(sim.setup, sim.options);
+    expect(() => pipe.process(sim.sensorFrame, createImage(10, 10))).toThrow(/sceneImage.*calibrated size/);
+    const empty = createImage(sim.sensorFrame.width, sim.sensorFrame.height);
+    const e = pipe.process(empty, sim.sceneImage);
+    expect(e.surface).toBeNull();
+    expect(e.correction).toBeNull();
+    expect(e.diagnostics.warnings.length).toBeGreaterThan(0);
+  });
+});
