@@ -143,9 +143,10 @@ export class FisheyeCamera implements CameraModel {
     }
     const t = Math.atan2(rho, z);
     if (!(t <= this.maxTheta)) return Status.outside;
-    const s = this.thetaD(t) / rho;
-    out[at] = this.fx * s * x + this.cx;
-    out[at + 1] = this.fy * s * y + this.cy;
+    // θd · (x/ρ): the unit direction first, so that a subnormal ρ cannot overflow to ∞ · 0
+    const s = this.thetaD(t);
+    out[at] = this.fx * s * (x / rho) + this.cx;
+    out[at + 1] = this.fy * s * (y / rho) + this.cy;
     return Status.ok;
   }
 

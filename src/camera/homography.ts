@@ -18,6 +18,7 @@ import {
   checkOptions,
   checkPositive,
   createRng,
+  LIMITS,
   rangeError,
   Status,
   typeError,
@@ -30,7 +31,7 @@ import { checkPixel } from './model.js';
 export interface RansacOptions {
   /** Largest transfer error of an inlier, in destination units (e.g. pixels). @defaultValue 3 */
   threshold?: number;
-  /** Cap on the number of random minimal samples. @defaultValue 2000 */
+  /** Cap on the number of random minimal samples, at most `LIMITS.maxIterations`. @defaultValue 2000 */
   maxIterations?: number;
   /** Wanted probability that one sample is outlier-free; sets the adaptive sample count. @defaultValue 0.995 */
   confidence?: number;
@@ -359,7 +360,7 @@ export function fitHomography(src: Float64Array, dst: Float64Array, options?: Fi
     const r = o.ransac === true ? {} : checkOptions(fn, o.ransac, 'options.ransac');
     ransac = {
       threshold: r.threshold === undefined ? 3 : checkPositive(fn, 'options.ransac.threshold', r.threshold),
-      maxIterations: r.maxIterations === undefined ? 2000 : checkInteger(fn, 'options.ransac.maxIterations', r.maxIterations, 1, 10_000_000),
+      maxIterations: r.maxIterations === undefined ? 2000 : checkInteger(fn, 'options.ransac.maxIterations', r.maxIterations, 1, LIMITS.maxIterations),
       confidence: r.confidence === undefined ? 0.995 : r.confidence,
       seed: r.seed === undefined ? 0 : r.seed,
     };

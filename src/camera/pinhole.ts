@@ -216,8 +216,17 @@ export class PinholeCamera implements CameraModel {
       let radial = 1 + s * (k1 + s * (k2 + s * k3));
       if (rational) radial /= 1 + s * (k4 + s * (k5 + s * k6));
       const xy = x * y;
-      out[j] = fx * (x * radial + tp1 * xy + p2 * (s + 2 * x * x)) + cx;
-      out[j + 1] = fy * (y * radial + p1 * (s + 2 * y * y) + tp2 * xy) + cy;
+      const u = fx * (x * radial + tp1 * xy + p2 * (s + 2 * x * x)) + cx;
+      const v = fy * (y * radial + p1 * (s + 2 * y * y) + tp2 * xy) + cy;
+      if (!Number.isFinite(u) || !Number.isFinite(v)) {
+        // so far off axis that the pixel overflows (no field limit without distortion)
+        out[j] = NaN;
+        out[j + 1] = NaN;
+        st[i] = Status.outside;
+        continue;
+      }
+      out[j] = u;
+      out[j + 1] = v;
       st[i] = Status.ok;
     }
     return res;

@@ -215,9 +215,17 @@ export function checkVec3(fn: string, parameter: string, value: unknown): Vec3 {
  */
 export function checkDirection(fn: string, parameter: string, value: unknown): [number, number, number] {
   const v = checkVec3(fn, parameter, value);
-  const n = Math.hypot(v[0], v[1], v[2]);
+  let x = v[0], y = v[1], z = v[2];
+  let n = Math.hypot(x, y, z);
+  if (n > 0 && n < 1e-150) {
+    // tiny (subnormal) components lose their ratio when divided directly: scale by an exact power of two first
+    x *= 2 ** 600;
+    y *= 2 ** 600;
+    z *= 2 ** 600;
+    n = Math.hypot(x, y, z);
+  }
   if (!(n > 0) || !Number.isFinite(n)) rangeError(fn, parameter, value, 'a direction of non-zero length');
-  return [v[0] / n, v[1] / n, v[2] / n];
+  return [x / n, y / n, z / n];
 }
 
 /**

@@ -67,6 +67,7 @@ export type Mask = Uint8Array;
  */
 export function createGrid(spec: GridSpec, data?: Float64Array, copy = false): Grid {
   const fn = 'createGrid';
+  if (spec === undefined) typeError(fn, 'spec', spec, 'a grid spec { width, height, dx?, dy?, x0?, y0? }');
   checkOptions(fn, spec, 'spec');
   const width = checkInteger(fn, 'spec.width', spec.width, 1, LIMITS.maxSide);
   const height = checkInteger(fn, 'spec.height', spec.height, 1, LIMITS.maxSide);
@@ -97,6 +98,7 @@ export function createGrid(spec: GridSpec, data?: Float64Array, copy = false): G
  * ```
  */
 export function gridFromFunction(spec: GridSpec, f: (x: number, y: number) => number): Grid {
+  if (typeof f !== 'function') typeError('gridFromFunction', 'f', f, 'a function (x, y) => number');
   const g = createGrid(spec);
   const { width, height, dx, dy, x0, y0, data } = g;
   for (let j = 0; j < height; j++) {

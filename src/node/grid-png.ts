@@ -113,11 +113,15 @@ export function writeGridPng(path: string, grid: Grid, options?: GridPngWriteOpt
   const fn = 'writeGridPng';
   if (typeof path !== 'string' || path.length === 0) typeError(fn, 'path', path, 'a non-empty file path string');
   const o = checkOptions(fn, options);
-  const mask = o.mask === undefined ? null : checkMask(fn, 'options.mask', o.mask, grid?.width, grid?.height);
+  checkGrid(fn, 'grid', grid, true); // shape first: the mask check needs a valid width and height
+  const mask = o.mask === undefined ? null : checkMask(fn, 'options.mask', o.mask, grid.width, grid.height);
   checkGrid(fn, 'grid', grid, mask !== null);
   const units = o.units === undefined ? 'm' : o.units;
   if (typeof units !== 'string') typeError(fn, 'options.units', units, 'a string');
   if (o.description !== undefined && typeof o.description !== 'string') typeError(fn, 'options.description', o.description, 'a string');
+  if (o.sidecarPath !== undefined && (typeof o.sidecarPath !== 'string' || o.sidecarPath.length === 0)) {
+    typeError(fn, 'options.sidecarPath', o.sidecarPath, 'a non-empty file path string or undefined');
+  }
   const d = grid.data;
   const n = d.length;
   if (mask !== null) {
@@ -224,6 +228,9 @@ function checkSidecar(fn: string, s: unknown): GridPngSidecar {
 export function readGridPng(path: string, sidecarPath?: string): GridPngReadResult {
   const fn = 'readGridPng';
   if (typeof path !== 'string' || path.length === 0) typeError(fn, 'path', path, 'a non-empty file path string');
+  if (sidecarPath !== undefined && (typeof sidecarPath !== 'string' || sidecarPath.length === 0)) {
+    typeError(fn, 'sidecarPath', sidecarPath, 'a non-empty file path string or undefined');
+  }
   const sidePath = sidecarPath ?? sidecarFor(path);
   let parsed: unknown;
   try {

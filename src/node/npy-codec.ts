@@ -192,8 +192,9 @@ export function npyDtypeOf(data: unknown): NpyDtype | undefined {
  * ```
  */
 export function npyDescr(dtype: NpyDtype, byteOrder: NpyByteOrder = 'little'): string {
-  const info = DTYPES[dtype];
-  if (info === undefined) checkOneOf('npyDescr', 'dtype', dtype, Object.keys(DTYPES) as NpyDtype[]);
+  const known = typeof dtype === 'string' && Object.prototype.hasOwnProperty.call(DTYPES, dtype);
+  const info = DTYPES[known ? dtype : checkOneOf('npyDescr', 'dtype', dtype, Object.keys(DTYPES) as NpyDtype[])];
+  checkOneOf('npyDescr', 'byteOrder', byteOrder, ['little', 'big'] as const);
   const order = info.size === 1 ? '|' : byteOrder === 'big' ? '>' : '<';
   return `${order}${info.kind}${info.size}`;
 }
@@ -688,7 +689,15 @@ export function encodeNpy(array: NpyArrayInput, options?: NpyEncodeOptions): Uin
  * ```
  */
 export function npyToCOrder<T extends NpyArray>(array: T): T {
+  const fn = 'npyToCOrder';
+  if (array === null || typeof array !== 'object') typeError(fn, 'array', array, 'a decoded array { shape, data, fortranOrder }');
   if (!array.fortranOrder) return array;
+  if (!Array.isArray(array.shape) || !ArrayBuffer.isView(array.data) || array.data instanceof DataView) {
+    typeError(fn, 'array', array, 'a decoded array { shape: number[], data: typed array, fortranOrder }');
+  }
+  if (array.shape.reduce((a: number, b: unknown) => a * (typeof b === 'number' ? b : NaN), 1) !== array.data.length) {
+    typeError(fn, 'array.shape', array.shape, `integer sizes whose product is data.length = ${array.data.length}`);
+  }
   const shape = array.shape;
   const nd = shape.length;
   const src = array.data;

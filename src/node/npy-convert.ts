@@ -10,6 +10,7 @@
  */
 import {
   checkGrid,
+  checkInteger,
   checkImage,
   checkMask,
   checkOneOf,
@@ -111,6 +112,8 @@ export interface MaskToNpyOptions {
  */
 export function maskToNpy(mask: Mask, width: number, height: number, options?: MaskToNpyOptions): NpyArrayInput {
   const fn = 'maskToNpy';
+  checkInteger(fn, 'width', width, 1, LIMITS.maxSide);
+  checkInteger(fn, 'height', height, 1, LIMITS.maxSide);
   checkMask(fn, 'mask', mask, width, height);
   const o = checkOptions(fn, options);
   const dtype = o.dtype === undefined ? 'uint8' : checkOneOf(fn, 'options.dtype', o.dtype, ['uint8', 'bool'] as const);

@@ -104,6 +104,8 @@ export function checkQuaternion(fn: string, parameter: string, value: unknown): 
  * ```
  */
 export function quaternionMultiply(a: Quaternion, b: Quaternion): MutableQuaternion {
+  checkQuaternionShape('quaternionMultiply', 'a', a);
+  checkQuaternionShape('quaternionMultiply', 'b', b);
   return [
     a[0] * b[0] - a[1] * b[1] - a[2] * b[2] - a[3] * b[3],
     a[0] * b[1] + a[1] * b[0] + a[2] * b[3] - a[3] * b[2],
@@ -122,6 +124,7 @@ export function quaternionMultiply(a: Quaternion, b: Quaternion): MutableQuatern
  * ```
  */
 export function quaternionConjugate(q: Quaternion): MutableQuaternion {
+  checkQuaternionShape('quaternionConjugate', 'q', q);
   return [q[0], -q[1], -q[2], -q[3]];
 }
 
@@ -367,4 +370,15 @@ export function platformToEnu(attitude: AttitudeInput, v: Vec3): MutableVec3 {
   checkVec3('platformToEnu', 'v', v);
   const m = platformRotation(attitude);
   return [m[0] * v[0] + m[1] * v[1] + m[2] * v[2], m[3] * v[0] + m[4] * v[1] + m[5] * v[2], m[6] * v[0] + m[7] * v[1] + m[8] * v[2]];
+}
+
+/** Four finite numbers (any length, not normalised): the algebra helpers keep their input's scale. */
+function checkQuaternionShape(fn: string, parameter: string, value: unknown): void {
+  const isArr = Array.isArray(value) || value instanceof Float64Array || value instanceof Float32Array;
+  if (!isArr || (value as ArrayLike<number>).length !== 4) typeError(fn, parameter, value, 'a quaternion [w, x, y, z]');
+  for (let k = 0; k < 4; k++) {
+    const c = (value as ArrayLike<unknown>)[k];
+    if (typeof c !== 'number') typeError(fn, parameter, value, 'a quaternion of numbers');
+    if (!Number.isFinite(c)) rangeError(fn, parameter, value, 'a quaternion of finite numbers');
+  }
 }

@@ -21,7 +21,7 @@ import { checkFinite, checkInteger, rangeError } from '../core/index.js';
  * ```
  */
 export function niceNumber(x: number, round = true): number {
-  if (!(x > 0) || !Number.isFinite(x)) rangeError('niceNumber', 'x', x, 'a finite number > 0');
+  if (typeof x !== 'number' || !(x > 0) || !Number.isFinite(x)) rangeError('niceNumber', 'x', x, 'a finite number > 0');
   const e = Math.floor(Math.log10(x));
   const f = x / 10 ** e;
   let nf: number;
