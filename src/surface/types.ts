@@ -10,6 +10,7 @@
  */
 import { checkFinite, checkOptions, rangeError } from '../core/index.js';
 import type { MutableVec3 } from '../core/index.js';
+import { checkSurface } from './intersect.js';
 
 /**
  * The box that holds a surface: its horizontal domain and the range of its heights.
@@ -93,6 +94,9 @@ export interface Surface {
  * ```
  */
 export function surfaceNormal(surface: Surface, x: number, y: number): MutableVec3 {
+  checkSurface('surfaceNormal', 'surface', surface);
+  checkFinite('surfaceNormal', 'x', x);
+  checkFinite('surfaceNormal', 'y', y);
   const g = [0, 0];
   surface.gradient(x, y, g);
   return normalFromSlopes(g[0]!, g[1]!);

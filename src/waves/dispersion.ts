@@ -135,13 +135,26 @@ export function wavenumberOf(omega: number, d: DispersionParameters): number {
 }
 
 /**
+ * The largest wavenumber the dispersion functions accept, rad/m (a wavelength of about
+ * 0.6 µm). Linear capillary–gravity theory has lost its meaning long before this; the
+ * bound keeps every result finite.
+ */
+export const MAX_WAVENUMBER = 1e7;
+
+function checkWavenumber(fn: string, k: number): number {
+  checkPositive(fn, 'k', k);
+  if (!(k <= MAX_WAVENUMBER)) rangeError(fn, 'k', k, `a wavenumber in (0, ${MAX_WAVENUMBER}] rad/m (MAX_WAVENUMBER)`);
+  return k;
+}
+
+/**
  * Angular frequency of a linear gravity–capillary wave,
  * `ω = √((g k + σ k³/ρ) tanh(k h))`.
  *
  * @param k - Wavenumber, rad/m (> 0).
  * @param options - Depth, surface tension, density, gravity.
  * @returns ω, rad/s.
- * @throws {@link core!MeniscusRangeError} for a non-positive wavenumber or bad options.
+ * @throws {@link core!MeniscusRangeError} for a wavenumber outside (0, {@link MAX_WAVENUMBER}] or bad options.
  * @see Lamb, H. (1932), Hydrodynamics, 6th ed., Cambridge University Press, §267
  *   (capillary–gravity waves on water of finite depth).
  * @example
@@ -150,7 +163,7 @@ export function wavenumberOf(omega: number, d: DispersionParameters): number {
  * ```
  */
 export function angularFrequency(k: number, options?: DispersionOptions): number {
-  checkPositive('angularFrequency', 'k', k);
+  checkWavenumber('angularFrequency', k);
   return omegaOf(k, dispersionParameters('angularFrequency', options));
 }
 
@@ -171,7 +184,12 @@ export function angularFrequency(k: number, options?: DispersionOptions): number
  */
 export function wavenumber(omega: number, options?: DispersionOptions): number {
   checkPositive('wavenumber', 'omega', omega);
-  return wavenumberOf(omega, dispersionParameters('wavenumber', options));
+  const d = dispersionParameters('wavenumber', options);
+  const omegaMax = omegaOf(MAX_WAVENUMBER, d);
+  if (!(omega <= omegaMax)) {
+    rangeError('wavenumber', 'omega', omega, `an angular frequency in (0, ${omegaMax}] rad/s (the frequency of MAX_WAVENUMBER)`);
+  }
+  return wavenumberOf(omega, d);
 }
 
 /**
@@ -180,7 +198,7 @@ export function wavenumber(omega: number, options?: DispersionOptions): number {
  * @param k - Wavenumber, rad/m (> 0).
  * @param options - Depth, surface tension, density, gravity.
  * @returns c, m/s.
- * @throws {@link core!MeniscusRangeError} for a non-positive wavenumber or bad options.
+ * @throws {@link core!MeniscusRangeError} for a wavenumber outside (0, {@link MAX_WAVENUMBER}] or bad options.
  * @see Lamb, H. (1932), Hydrodynamics, 6th ed., §267.
  * @example
  * ```ts
@@ -188,7 +206,7 @@ export function wavenumber(omega: number, options?: DispersionOptions): number {
  * ```
  */
 export function phaseSpeed(k: number, options?: DispersionOptions): number {
-  checkPositive('phaseSpeed', 'k', k);
+  checkWavenumber('phaseSpeed', k);
   return omegaOf(k, dispersionParameters('phaseSpeed', options)) / k;
 }
 
@@ -199,7 +217,7 @@ export function phaseSpeed(k: number, options?: DispersionOptions): number {
  * @param k - Wavenumber, rad/m (> 0).
  * @param options - Depth, surface tension, density, gravity.
  * @returns c_g, m/s.
- * @throws {@link core!MeniscusRangeError} for a non-positive wavenumber or bad options.
+ * @throws {@link core!MeniscusRangeError} for a wavenumber outside (0, {@link MAX_WAVENUMBER}] or bad options.
  * @see Lighthill, J. (1978), Waves in Fluids, Cambridge University Press, §3.6 (group
  *   velocity of capillary–gravity waves).
  * @example
@@ -208,7 +226,7 @@ export function phaseSpeed(k: number, options?: DispersionOptions): number {
  * ```
  */
 export function groupSpeed(k: number, options?: DispersionOptions): number {
-  checkPositive('groupSpeed', 'k', k);
+  checkWavenumber('groupSpeed', k);
   return groupSpeedOf(k, dispersionParameters('groupSpeed', options));
 }
 

@@ -9,6 +9,7 @@
 export type { DispersionOptions, DispersionParameters, MinimumPhaseSpeed } from './dispersion.js';
 export {
   STANDARD_GRAVITY,
+  MAX_WAVENUMBER,
   surfaceTensionWater,
   dispersionParameters,
   angularFrequency,

@@ -56,11 +56,6 @@ export const OPEN_DEFECTS: Readonly<Record<string, string>> = {
   'node/formatConfigIssue': 'TypeError on undefined',
   'node/ConfigValidationError': 'TypeError on junk issues',
   'node/UsageError': 'TypeError on a null-prototype message',
-  'waves/angularFrequency': 'Infinity for a finite huge wavenumber (1e308)',
-  'waves/phaseSpeed': 'Infinity for a finite huge wavenumber (1e308)',
-  'waves/groupSpeed': 'NaN for a finite huge wavenumber (1e308)',
-  'waves/wavenumber': 'Infinity for a finite huge angular frequency (1e308)',
-  'surface/surfaceNormal': 'TypeError "surface.gradient is not a function" on a non-surface',
   'integrate/prepareDctPoisson': 'TypeError on undefined spec',
   'integrate/prepareFrankotChellappa': 'TypeError on undefined spec',
 };

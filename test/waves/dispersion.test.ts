@@ -124,3 +124,17 @@ describe('surface tension of water, IAPWS R1-76(2014)', () => {
     expect(() => surfaceTensionWater(NaN)).toThrow(MeniscusRangeError);
   });
 });
+
+describe('dispersion bounds', () => {
+  it('refuses wavenumbers and frequencies beyond MAX_WAVENUMBER instead of returning ∞ or NaN', async () => {
+    const w = await import('../../src/waves/index.js');
+    for (const f of [w.angularFrequency, w.phaseSpeed, w.groupSpeed]) {
+      expect(() => f(1e308)).toThrow(/MAX_WAVENUMBER/);
+      expect(Number.isFinite(f(w.MAX_WAVENUMBER))).toBe(true);
+    }
+    expect(() => w.wavenumber(1e308)).toThrow(/MAX_WAVENUMBER/);
+    // the round trip holds at the bound (the relation is monotonic)
+    const om = w.angularFrequency(w.MAX_WAVENUMBER);
+    expect(w.wavenumber(om) / w.MAX_WAVENUMBER).toBeCloseTo(1, 10);
+  });
+});
