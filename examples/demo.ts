@@ -85,9 +85,9 @@ function runScenario(scenario: Scenario): { rows: Row[]; report: Record<string, 
   const ideal = { psnr: psnr(ci.image, sim.truthImage, { mask: maskI }), ssim: ssim(ci.image, sim.truthImage, { mask: maskI }).ssim };
   // The fast mode's map against the exact one, on the measured surface.
   const fastError: Record<string, number> = {};
-  for (const meshStep of [2, 4, 8]) {
+  for (const [meshStep, meshInterpolation] of [[2, 'linear'], [4, 'linear'], [8, 'linear'], [4, 'cubic'], [8, 'cubic']] as const) {
     const tf = performance.now();
-    const f = correctImage(sim.sceneImage, sim.camera, sim.pose, r.surface!, target, { ...sim.options.correction, mode: 'fast', meshStep });
+    const f = correctImage(sim.sceneImage, sim.camera, sim.pose, r.surface!, target, { ...sim.options.correction, mode: 'fast', meshStep, meshInterpolation });
     const ms = performance.now() - tf;
     let se = 0, n = 0;
     for (let p = 0; p < c.mask.length; p++) {
@@ -95,8 +95,9 @@ function runScenario(scenario: Scenario): { rows: Row[]; report: Record<string, 
       se += (c.map[2 * p]! - f.map[2 * p]!) ** 2 + (c.map[2 * p + 1]! - f.map[2 * p + 1]!) ** 2;
       n++;
     }
-    fastError[`mesh${meshStep}`] = Math.sqrt(se / n);
-    fastError[`mesh${meshStep}Ms`] = ms;
+    const key = `mesh${meshStep}${meshInterpolation === 'cubic' ? 'Cubic' : ''}`;
+    fastError[key] = Math.sqrt(se / n);
+    fastError[`${key}Ms`] = ms;
   }
   // Pictures.
   writePng(join(dir, 'sensor-frame.png'), normalised(sim.sensorFrame), { transfer: 'srgb' });
@@ -145,14 +146,15 @@ function runScenario(scenario: Scenario): { rows: Row[]; report: Record<string, 
   );
   const t = d.timings;
   console.log(
-    `  frame time ${t.total.toFixed(0)} ms (detect ${t.detect.toFixed(0)}, match ${t.match.toFixed(0)}, reconstruct ${t.reconstruct.toFixed(0)}, ` +
+    `  frame time ${t.total.toFixed(0)} ms (detect ${t.detect.toFixed(0)}, match ${t.match.toFixed(0)}, reconstruct ${t.reconstruct.toFixed(0)}, surface ${t.surface.toFixed(0)}, ` +
       `correct ${(t.correctTrace + t.correctRaster + t.correctSample).toFixed(0)}); simulation ${tSim.toFixed(0)} ms`,
   );
   const w = Math.max(...rows.map((x) => x.label.length));
   const hasTruth = rows.some((x) => x.truth !== undefined);
   console.log(`  ${'score'.padEnd(w)}  ${'uncorrected'.padStart(22)}  ${'corrected'.padStart(10)}  ${'(true surf.)'.padStart(12)}${hasTruth ? '  ' + 'flat truth'.padStart(10) : ''}`);
   for (const x of rows) console.log(`  ${x.label.padEnd(w)}  ${x.before.padStart(22)}  ${x.after.padStart(10)}  ${(x.ideal ?? '').padStart(12)}${x.truth !== undefined ? '  ' + x.truth.padStart(10) : ''}`);
-  console.log(`  fast mode vs exact map (off folds): ${[2, 4, 8].map((m) => `mesh ${m} px ${fastError[`mesh${m}`]!.toFixed(3)} px RMS (${fastError[`mesh${m}Ms`]!.toFixed(0)} ms)`).join(', ')}`);
+  const fm = (k: string, label: string): string => `${label} ${fastError[k]!.toFixed(3)} px RMS (${fastError[`${k}Ms`]!.toFixed(0)} ms)`;
+  console.log(`  fast mode vs exact map (off folds): linear ${[2, 4, 8].map((m) => fm(`mesh${m}`, `${m} px`)).join(', ')}; cubic ${[4, 8].map((m) => fm(`mesh${m}Cubic`, `${m} px`)).join(', ')}`);
   console.log(`  pictures and report.json in ${dir}/`);
   return { rows, report };
 }

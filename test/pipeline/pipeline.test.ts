@@ -1,7 +1,10 @@
 import { describe, it, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { createImage, MeniscusRangeError, MeniscusTypeError } from '../../src/core/index.js';
-import { psnr, ssim } from '../../src/metrics/index.js';
+import { createImage, MeniscusRangeError, MeniscusTypeError, Status } from '../../src/core/index.js';
+import type { Image } from '../../src/core/index.js';
+import { createGridSurface } from '../../src/surface/index.js';
+import type { Surface } from '../../src/surface/index.js';
+import { detectCheckerboardCorners, lineStraightness, psnr, squareSizeSpread, ssim } from '../../src/metrics/index.js';
 import { harbourScenario, preparePipeline, processFrame, simulateScenario, tankScenario, validateScenario } from '../../src/pipeline/index.js';
 import type { Scenario } from '../../src/pipeline/index.js';
 
@@ -83,9 +86,57 @@ describe('processFrame on the simulated tank', () => {
     expect(after.ssim).toBeGreaterThan(before.ssim + 0.05);
   });
 
+  // Why the pipeline integrates the slopes onto a finer grid before correcting: the
+  // sensor's one-pitch height grid, interpolated bicubically, has slopes far from the
+  // slopes the sensor measured at its own sample points (the correction refracts by the
+  // slopes). Truth: the simulated sea's analytic-interpolant slopes.
+  it('the surface it corrects through keeps the measured slopes (the sensor grid alone does not)', () => {
+    const s = r.measurement.reconstruction!.samples;
+    const g = new Float64Array(2), t = new Float64Array(2);
+    const rms = (surf: Surface | null): { surface: number; samples: number; truth: number } => {
+      let es = 0, ed = 0, tt = 0, n = 0;
+      for (let k = 0; k < s.count; k++) {
+        if (s.status[k] !== Status.ok) continue;
+        sim.trueSurface.heightGradient(s.x[k]!, s.y[k]!, t);
+        ed += (s.p[k]! - t[0]!) ** 2 + (s.q[k]! - t[1]!) ** 2;
+        tt += t[0]! ** 2 + t[1]! ** 2;
+        if (surf) {
+          surf.heightGradient(s.x[k]!, s.y[k]!, g);
+          es += (g[0]! - t[0]!) ** 2 + (g[1]! - t[1]!) ** 2;
+        }
+        n++;
+      }
+      return { surface: Math.sqrt(es / n), samples: Math.sqrt(ed / n), truth: Math.sqrt(tt / n) };
+    };
+    const sensorGrid = rms(createGridSurface(r.height!));
+    const used = rms(r.surface);
+    expect(sensorGrid.samples).toBeLessThan(0.1 * sensorGrid.truth); // the sensor measures slopes well
+    expect(sensorGrid.surface).toBeGreaterThan(4 * sensorGrid.samples); // the one-pitch interpolant loses them
+    expect(used.surface).toBeLessThan(0.6 * sensorGrid.surface);
+    expect(r.surfaceHeight!.dx).toBeCloseTo(r.height!.dx / 2, 12);
+  });
+
+  // Issue check: against the uncorrected image, the image corrected through the MEASURED
+  // surface cuts the checkerboard square-size spread and the line curvature each by
+  // ≥ 80 % on the demo's tank sea. Scores from the metrics area (corner detection,
+  // square-size spread, line straightness); the board and sea are the shipped scenario.
+  it('corrected through the measured surface, cuts the checkerboard spread and curvature by ≥ 80 %', () => {
+    const score = (im: Image): { spread: number; curvature: number; count: number } => {
+      const det = detectCheckerboardCorners(im);
+      expect(det.status).toBe('ok');
+      return { spread: squareSizeSpread(det).all.relativeStd, curvature: lineStraightness(det).meanAbsCurvature, count: det.count };
+    };
+    const before = score(sim.sceneImage);
+    const after = score(r.correction!.image);
+    expect(after.count).toBe(225); // all 15 × 15 inner corners
+    expect(after.spread).toBeLessThan(0.2 * before.spread);
+    expect(after.curvature).toBeLessThan(0.2 * before.curvature);
+  });
+
   it('refuses a scene image of the wrong size, and survives an empty sensor frame', () => {
     const pipe = preparePipeline(sim.setup, sim.options);
     expect(() => pipe.process(sim.sensorFrame, createImage(10, 10))).toThrow(/sceneImage.*calibrated size/);
+    expect(() => preparePipeline(sim.setup, { surface: { subdivision: 9 } })).toThrow(/options\.surface\.subdivision/);
     const empty = createImage(sim.sensorFrame.width, sim.sensorFrame.height);
     const e = pipe.process(empty, sim.sceneImage);
     expect(e.surface).toBeNull();
