@@ -2,7 +2,8 @@
  * Sensor benchmarks. `spots.centroid` follows the peers script (same image recipe,
  * threshold and estimator: label the pixels 100 counts above the known background of 20,
  * intensity-weighted centre of each component); `sensor.frame` runs one frame from pixels
- * to a height map with one refinement pass.
+ * to a height map with one refinement pass; `sensor.frame.windowed` the same with the
+ * detector searching only windows around a previous frame's spots (no peer).
  */
 import type { BenchCase } from '../case.js';
 import { createImage, createRng } from '../../src/core/index.js';
@@ -85,9 +86,9 @@ function centroidCase(): BenchCase {
 }
 
 
-function frameCase(): BenchCase {
+function frameCase(windowed = false): BenchCase {
   return {
-    name: 'sensor.frame',
+    name: windowed ? 'sensor.frame.windowed' : 'sensor.frame',
     size: 1024,
     quickSize: 256,
     iterations: 5,
@@ -114,8 +115,13 @@ function frameCase(): BenchCase {
       }
       const view = createPlaneView({ width: n, height: n, pixelSize: (0.36e-3 * 1024) / n, centre: [cx, cy] });
       const frame = renderSpotFrame(traceSpots(geometry, sea, light), light, view, { photonsPerSpot: 30000, seed: 4 });
+      // The windowed variant searches ±10 px around the spots of a previous frame (here the
+      // same frame's spots shifted by 2 px, found once outside the timing), as a stream of
+      // frames would after its first.
+      const prior = windowed ? detectSpots(frame.image) : null;
+      const detect = prior ? { windows: { x: prior.x.map((v) => v + 2), y: prior.y.map((v) => v - 2), halfWidth: 10 } } : {};
       return {
-        run: () => measureFrame(frame.image, { geometry, light, view, reference }, { reconstruct: { maxIterations: 1 } }),
+        run: () => measureFrame(frame.image, { geometry, light, view, reference }, { detect, reconstruct: { maxIterations: 1 } }),
         error(result: unknown) {
           // RMS height error over the interior nodes (two-node border dropped), metres.
           const h = (result as FrameMeasurement).reconstruction!.height;
@@ -136,10 +142,10 @@ function frameCase(): BenchCase {
           }
           return Math.sqrt(se / n2);
         },
-        notes: (ms: number) => `${(1000 / ms).toFixed(2)} frames/s (1 refinement pass)`,
+        notes: (ms: number) => `${(1000 / ms).toFixed(2)} frames/s (1 refinement pass${windowed ? ', windowed search' : ''})`,
       };
     },
   };
 }
 
-export const cases: BenchCase[] = [centroidCase(), frameCase()];
+export const cases: BenchCase[] = [centroidCase(), frameCase(), frameCase(true)];

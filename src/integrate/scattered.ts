@@ -52,6 +52,24 @@ export interface ScatteredOptions {
   maxIterations?: number;
   /** Called every PCG iteration with (iteration, relative residual); return `false` to stop. */
   onProgress?: ProgressCallback;
+  /**
+   * How the grid's heights give the slope at a sample. `'bilinear'`: the gradient of the
+   * bilinear interpolant of the sample's cell (piecewise constant across cell edges, so a
+   * sample that moves over an edge changes its equation abruptly). `'smooth'`: the
+   * bilinear interpolation of the grid's edge differences, `p` from the x-differences at
+   * the edge midpoints `x0 + (i + ½)dx`, `q` from the y-differences at `y0 + (j + ½)dy`;
+   * it changes continuously with the sample's position, which an iteration that moves
+   * the samples (refined crossing points) needs in order to settle. It needs a grid of at
+   * least 3 × 3 nodes (smaller grids use `'bilinear'`); beyond the outermost midpoints the
+   * nearest edge difference holds. @defaultValue 'bilinear'
+   */
+  model?: 'bilinear' | 'smooth';
+  /**
+   * Starting heights for the solver, one per grid node (for example the result of a
+   * previous pass over nearby samples); the solution does not depend on it, only the
+   * iterations do. @defaultValue all 0
+   */
+  initialGuess?: Float64Array;
 }
 
 /** What {@link integrateScattered} returns. */
@@ -60,6 +78,127 @@ export interface ScatteredResult extends IntegrationResult {
   readonly samplesUsed: number;
   /** Samples outside the grid's extent, ignored. */
   readonly samplesOutside: number;
+}
+
+/**
+ * Add the thin-plate penalty `ws · Σ [(dx·h_xx)² + 2(√(dx dy)·h_xy)² + (dy·h_yy)²]` (second
+ * differences where they exist) of a `width × height` grid whose node `(i, j)` is row
+ * `off0 + j·width + i` of a radius-2 stencil matrix: the same sums of `w c cᵀ` as one
+ * equation a difference, written straight into the coefficients.
+ */
+function addThinPlate(coef: Float64Array, width: number, height: number, off0: number, ws: number, dx: number, dy: number): void {
+  // Coefficient slot of offset (di, dj) in a row: (dj + 2)·5 + (di + 2).
+  const at = (di: number, dj: number): number => (dj + 2) * 5 + di + 2;
+  const cxx = ws / (dx * dx), cyy = ws / (dy * dy), cxy = (2 * ws) / (dx * dy);
+  const sx = [1, -2, 1];
+  for (let j = 0; j < height; j++) {
+    for (let i = 0; i < width; i++) {
+      const k = off0 + j * width + i;
+      if (i > 0 && i + 1 < width) {
+        // nodes k − 1, k, k + 1 with coefficients (1, −2, 1)/dx
+        for (let a = 0; a < 3; a++) {
+          const row = (k - 1 + a) * 25;
+          for (let b = 0; b < 3; b++) coef[row + at(b - a, 0)]! += cxx * sx[a]! * sx[b]!;
+        }
+      }
+      if (j > 0 && j + 1 < height) {
+        for (let a = 0; a < 3; a++) {
+          const row = (k + (a - 1) * width) * 25;
+          for (let b = 0; b < 3; b++) coef[row + at(0, b - a)]! += cyy * sx[a]! * sx[b]!;
+        }
+      }
+      if (i + 1 < width && j + 1 < height) {
+        // nodes k, k + 1, k + width, k + width + 1 with coefficients (1, −1, −1, 1)/√(dx dy)
+        for (let a = 0; a < 4; a++) {
+          const ai = a & 1, aj = a >> 1;
+          const row = (k + aj * width + ai) * 25;
+          const ca = ai === aj ? 1 : -1;
+          for (let b = 0; b < 4; b++) {
+            const bi = b & 1, bj = b >> 1;
+            coef[row + at(bi - ai, bj - aj)]! += cxy * ca * (bi === bj ? 1 : -1);
+          }
+        }
+      }
+    }
+  }
+}
+
+/**
+ * The two equations of one sample: nodes and coefficients of `p` and of `q` in terms of
+ * the grid's heights, for either slope model (see {@link ScatteredOptions.model}).
+ */
+class SampleEquations {
+  readonly np = new Int32Array(6);
+  readonly nq = new Int32Array(6);
+  readonly cp = new Float64Array(6);
+  readonly cq = new Float64Array(6);
+  count = 4;
+  /**
+   * Fill the equations of a sample at grid coordinates `(u, v)` (inside the grid);
+   * returns the index of the top-left node of the sample's cell.
+   */
+  set(u: number, v: number, width: number, height: number, dx: number, dy: number, smooth: boolean): number {
+    const ci = Math.min(Math.floor(u), width - 2);
+    const cj = Math.min(Math.floor(v), height - 2);
+    const fu = u - ci;
+    const fv = v - cj;
+    const c00 = cj * width + ci;
+    const { np, nq, cp, cq } = this;
+    if (!smooth) {
+      this.count = 4;
+      np[0] = nq[0] = c00;
+      np[1] = nq[1] = c00 + 1;
+      np[2] = nq[2] = c00 + width;
+      np[3] = nq[3] = c00 + width + 1;
+      cp[0] = -(1 - fv) / dx;
+      cp[1] = (1 - fv) / dx;
+      cp[2] = -fv / dx;
+      cp[3] = fv / dx;
+      cq[0] = -(1 - fu) / dy;
+      cq[1] = -fu / dy;
+      cq[2] = (1 - fu) / dy;
+      cq[3] = fu / dy;
+      return c00;
+    }
+    this.count = 6;
+    // p: x-differences at the edge midpoints (i + ½, j), interpolated bilinearly.
+    const a = u - 0.5;
+    const ia = Math.min(Math.max(Math.floor(a), 0), width - 3);
+    const fa = Math.min(Math.max(a - ia, 0), 1);
+    const pa = cj * width + ia;
+    const k0 = -(1 - fa) / dx, k1 = (1 - 2 * fa) / dx, k2 = fa / dx;
+    np[0] = pa;
+    np[1] = pa + 1;
+    np[2] = pa + 2;
+    np[3] = pa + width;
+    np[4] = pa + width + 1;
+    np[5] = pa + width + 2;
+    cp[0] = (1 - fv) * k0;
+    cp[1] = (1 - fv) * k1;
+    cp[2] = (1 - fv) * k2;
+    cp[3] = fv * k0;
+    cp[4] = fv * k1;
+    cp[5] = fv * k2;
+    // q: y-differences at the edge midpoints (i, j + ½), interpolated bilinearly.
+    const b = v - 0.5;
+    const jb = Math.min(Math.max(Math.floor(b), 0), height - 3);
+    const fb = Math.min(Math.max(b - jb, 0), 1);
+    const qa = jb * width + ci;
+    const l0 = -(1 - fb) / dy, l1 = (1 - 2 * fb) / dy, l2 = fb / dy;
+    nq[0] = qa;
+    nq[1] = qa + 1;
+    nq[2] = qa + width;
+    nq[3] = qa + width + 1;
+    nq[4] = qa + 2 * width;
+    nq[5] = qa + 2 * width + 1;
+    cq[0] = (1 - fu) * l0;
+    cq[1] = fu * l0;
+    cq[2] = (1 - fu) * l1;
+    cq[3] = fu * l1;
+    cq[4] = (1 - fu) * l2;
+    cq[5] = fu * l2;
+    return c00;
+  }
 }
 
 /**
@@ -85,7 +224,12 @@ export interface ScatteredResult extends IntegrationResult {
  *
  * Cost: assembly O(samples); each PCG iteration O(grid nodes) (25-point stencil with
  * an incomplete-Cholesky preconditioner); iterations grow with the grid's side and with
- * the size of data-free regions.
+ * the size of data-free regions. A good {@link ScatteredOptions.initialGuess} saves a
+ * few of them.
+ *
+ * With `model: 'smooth'` (see {@link ScatteredOptions.model}) each sample's slopes are
+ * instead the bilinear interpolation of the grid's edge differences, whose equations
+ * change continuously as a sample moves; the penalty and everything else are the same.
  *
  * @param samples - Positions, slopes and optional weights.
  * @param grid - The output grid: at least 2 × 2 nodes.
@@ -123,6 +267,7 @@ export function integrateScattered(samples: ScatteredSlopes, grid: GridSpec, opt
   }
   if (m > LIMITS.maxBatch) rangeError(fn, 'samples.x.length', m, `at most ${LIMITS.maxBatch} samples`);
   const o = checkOptions(fn, options);
+  if (grid === null || typeof grid !== 'object') typeError(fn, 'grid', grid, 'a grid spec { width, height, dx?, dy?, x0?, y0? }');
   const g = createGrid(grid);
   const { width, height, dx, dy, x0, y0 } = g;
   if (width < 2) rangeError(fn, 'grid.width', width, 'at least 2 nodes');
@@ -135,13 +280,24 @@ export function integrateScattered(samples: ScatteredSlopes, grid: GridSpec, opt
   if (o.onProgress !== undefined && typeof o.onProgress !== 'function') {
     typeError(fn, 'options.onProgress', o.onProgress, 'a function or undefined');
   }
-
+  const model = o.model === undefined ? 'bilinear' : checkOneOf(fn, 'options.model', o.model, ['bilinear', 'smooth'] as const);
+  const smooth = model === 'smooth' && width >= 3 && height >= 3;
   const n = width * height;
-  const A = createStencilMatrix(width, height, 2);
-  const rhs = new Float64Array(n);
-  const nodes = new Int32Array(4);
-  const cx = new Float64Array(4);
-  const cy = new Float64Array(4);
+  if (o.initialGuess !== undefined) {
+    const g0 = o.initialGuess;
+    if (!(g0 instanceof Float64Array) || g0.length !== n) typeError(fn, 'options.initialGuess', g0, `a Float64Array of ${n} heights (one per grid node)`);
+    for (let k = 0; k < n; k++) if (!Number.isFinite(g0[k]!)) rangeError(fn, `options.initialGuess[${k}]`, g0[k], 'a finite height');
+  }
+
+  // The system lives on the grid padded with PAD empty rows above and below: those rows
+  // have no equations (they drop out of the solve), and every row of the grid itself then
+  // takes the solver's unrolled path, which needs 3 rows on either side.
+  const pad = 3;
+  const off0 = pad * width;
+  const A = createStencilMatrix(width, height + 2 * pad, 2);
+  const np = n + 2 * off0;
+  const rhs = new Float64Array(np);
+  const eq = new SampleEquations();
   const cellOf = new Int32Array(m).fill(-1);
   const supported = new Uint8Array(n);
   let used = 0;
@@ -167,27 +323,15 @@ export function integrateScattered(samples: ScatteredSlopes, grid: GridSpec, opt
       continue;
     }
     if (w === 0) continue;
-    const ci = Math.min(Math.floor(u), width - 2);
-    const cj = Math.min(Math.floor(v), height - 2);
-    const fu = u - ci;
-    const fv = v - cj;
-    const c00 = cj * width + ci;
-    nodes[0] = c00;
-    nodes[1] = c00 + 1;
-    nodes[2] = c00 + width;
-    nodes[3] = c00 + width + 1;
-    cx[0] = -(1 - fv) / dx;
-    cx[1] = (1 - fv) / dx;
-    cx[2] = -fv / dx;
-    cx[3] = fv / dx;
-    cy[0] = -(1 - fu) / dy;
-    cy[1] = -fu / dy;
-    cy[2] = (1 - fu) / dy;
-    cy[3] = fu / dy;
-    addEquation(A, rhs, nodes, cx, 4, w, ps);
-    addEquation(A, rhs, nodes, cy, 4, w, qs);
+    const c00 = eq.set(u, v, width, height, dx, dy, smooth);
+    for (let t = 0; t < eq.count; t++) {
+      eq.np[t]! += off0;
+      eq.nq[t]! += off0;
+    }
+    addEquation(A, rhs, eq.np, eq.cp, eq.count, w, ps);
+    addEquation(A, rhs, eq.nq, eq.cq, eq.count, w, qs);
     cellOf[s] = c00;
-    for (let t = 0; t < 4; t++) supported[nodes[t]!] = 1;
+    supported[c00] = supported[c00 + 1] = supported[c00 + width] = supported[c00 + width + 1] = 1;
     used++;
     totalWeight += w;
   }
@@ -196,56 +340,28 @@ export function integrateScattered(samples: ScatteredSlopes, grid: GridSpec, opt
   }
   // thin-plate penalty
   const ws = (smoothness * totalWeight) / ((width - 1) * (height - 1));
-  const sxx = new Float64Array([1 / dx, -2 / dx, 1 / dx]);
-  const syy = new Float64Array([1 / dy, -2 / dy, 1 / dy]);
-  const r = 1 / Math.sqrt(dx * dy);
-  const sxy = new Float64Array([r, -r, -r, r]);
-  const zero = new Float64Array(n);
-  for (let j = 0; j < height; j++) {
-    for (let i = 0; i < width; i++) {
-      const k = j * width + i;
-      if (i > 0 && i + 1 < width) {
-        nodes[0] = k - 1;
-        nodes[1] = k;
-        nodes[2] = k + 1;
-        addEquation(A, zero, nodes, sxx, 3, ws, 0);
-      }
-      if (j > 0 && j + 1 < height) {
-        nodes[0] = k - width;
-        nodes[1] = k;
-        nodes[2] = k + width;
-        addEquation(A, zero, nodes, syy, 3, ws, 0);
-      }
-      if (i + 1 < width && j + 1 < height) {
-        nodes[0] = k;
-        nodes[1] = k + 1;
-        nodes[2] = k + width;
-        nodes[3] = k + width + 1;
-        addEquation(A, zero, nodes, sxy, 4, 2 * ws, 0);
-      }
-    }
-  }
+  addThinPlate(A.coef, width, height, off0, ws, dx, dy);
   const { labels, count } = stencilComponents(A);
-  const { x: h, result } = solveStencil(A, rhs, labels, count, { tolerance, maxIterations, onProgress: o.onProgress });
+  let start: Float64Array | undefined;
+  if (o.initialGuess !== undefined) {
+    start = new Float64Array(np);
+    start.set(o.initialGuess, off0);
+  }
+  const { x: hp, result } = solveStencil(A, rhs, labels, count, { tolerance, maxIterations, onProgress: o.onProgress }, start);
+  const h = hp.slice(off0, off0 + n);
 
   // residual at the samples
   let sum = 0;
   for (let s = 0; s < m; s++) {
-    const c00 = cellOf[s]!;
-    if (c00 < 0) continue;
-    const u = (x[s]! - x0) / dx;
-    const v = (y[s]! - y0) / dy;
-    const ci = c00 % width;
-    const cj = (c00 - ci) / width;
-    const fu = u - ci;
-    const fv = v - cj;
-    const h00 = h[c00]!;
-    const h10 = h[c00 + 1]!;
-    const h01 = h[c00 + width]!;
-    const h11 = h[c00 + width + 1]!;
-    const ep = ((1 - fv) * (h10 - h00) + fv * (h11 - h01)) / dx - p[s]!;
-    const eq = ((1 - fu) * (h01 - h00) + fu * (h11 - h10)) / dy - q[s]!;
-    sum += ep * ep + eq * eq;
+    if (cellOf[s]! < 0) continue;
+    eq.set((x[s]! - x0) / dx, (y[s]! - y0) / dy, width, height, dx, dy, smooth);
+    let ep = -p[s]!;
+    let eqq = -q[s]!;
+    for (let t = 0; t < eq.count; t++) {
+      ep += eq.cp[t]! * h[eq.np[t]!]!;
+      eqq += eq.cq[t]! * h[eq.nq[t]!]!;
+    }
+    sum += ep * ep + eqq * eqq;
   }
   const mask = region === 'grid' ? new Uint8Array(n).fill(1) : supported;
   const regionLabels = new Int32Array(n);

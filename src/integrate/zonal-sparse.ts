@@ -96,8 +96,13 @@ export function addEquation(
 /** `out = A v`. Interior rows skip the bounds checks. @internal */
 export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Array): void {
   const { width, height, size, coef, di, dj, off, radius } = A;
+  const fast = radius === 2 && width >= 5;
   for (let j = 0; j < height; j++) {
     const inner = j >= radius && j < height - radius;
+    if (fast && j > 2 && j < height - 3) {
+      stencilRow5(coef, v, out, width, j);
+      continue;
+    }
     for (let i = 0; i < width; i++) {
       const k = j * width + i;
       const base = k * size;
@@ -184,12 +189,53 @@ export function incompleteCholesky(A: StencilMatrix): Float64Array {
   return L;
 }
 
+/**
+ * One row `j` (at least 3 rows from the top and bottom) of `out = A v` for a radius-2
+ * stencil, unrolled. Columns near the left and right edges read wrapped neighbours of the
+ * adjacent rows, whose coefficients are zero (equations only couple nodes of the grid),
+ * so they need no bounds tests; `v` must be finite.
+ */
+function stencilRow5(coef: Float64Array, v: Float64Array, out: Float64Array, w: number, j: number): void {
+  const w2 = 2 * w;
+  for (let k = j * w, end = k + w; k < end; k++) {
+    const b = k * 25;
+    let t = k - w2;
+    let s = coef[b]! * v[t - 2]! + coef[b + 1]! * v[t - 1]! + coef[b + 2]! * v[t]! + coef[b + 3]! * v[t + 1]! + coef[b + 4]! * v[t + 2]!;
+    t += w;
+    s += coef[b + 5]! * v[t - 2]! + coef[b + 6]! * v[t - 1]! + coef[b + 7]! * v[t]! + coef[b + 8]! * v[t + 1]! + coef[b + 9]! * v[t + 2]!;
+    t += w;
+    s += coef[b + 10]! * v[t - 2]! + coef[b + 11]! * v[t - 1]! + coef[b + 12]! * v[t]! + coef[b + 13]! * v[t + 1]! + coef[b + 14]! * v[t + 2]!;
+    t += w;
+    s += coef[b + 15]! * v[t - 2]! + coef[b + 16]! * v[t - 1]! + coef[b + 17]! * v[t]! + coef[b + 18]! * v[t + 1]! + coef[b + 19]! * v[t + 2]!;
+    t += w;
+    s += coef[b + 20]! * v[t - 2]! + coef[b + 21]! * v[t - 1]! + coef[b + 22]! * v[t]! + coef[b + 23]! * v[t + 1]! + coef[b + 24]! * v[t + 2]!;
+    out[k] = s;
+  }
+}
+
 /** `z = (L Lᵀ)⁻¹ r`. Interior rows skip the bounds checks. @internal */
 export function applyCholesky(A: StencilMatrix, L: Float64Array, r: Float64Array, z: Float64Array): void {
   const { width, height, size, center, di, dj, off, radius } = A;
+  // Radius 2, rows 3 or more from the top and bottom: unrolled, as in stencilRow5 (the factor's
+  // entries for neighbours outside the grid are zero).
+  const fast = radius === 2 && width >= 5;
+  const w = width, w2 = 2 * width;
   // forward: L y = r (y stored in z)
   for (let j = 0; j < height; j++) {
     const inner = j >= radius && j < height - radius;
+    if (fast && j > 2 && j < height - 3) {
+      for (let k = j * w, end = k + w; k < end; k++) {
+        const b = k * 25;
+        const t = k - w2, u = k - w;
+        const s =
+          r[k]! -
+          (L[b]! * z[t - 2]! + L[b + 1]! * z[t - 1]! + L[b + 2]! * z[t]! + L[b + 3]! * z[t + 1]! + L[b + 4]! * z[t + 2]!) -
+          (L[b + 5]! * z[u - 2]! + L[b + 6]! * z[u - 1]! + L[b + 7]! * z[u]! + L[b + 8]! * z[u + 1]! + L[b + 9]! * z[u + 2]!) -
+          (L[b + 10]! * z[k - 2]! + L[b + 11]! * z[k - 1]!);
+        z[k] = s / L[b + 12]!;
+      }
+      continue;
+    }
     for (let i = 0; i < width; i++) {
       const k = j * width + i;
       const base = k * size;
@@ -212,6 +258,27 @@ export function applyCholesky(A: StencilMatrix, L: Float64Array, r: Float64Array
   // backward: Lᵀ x = y, column-oriented, in place
   for (let j = height - 1; j >= 0; j--) {
     const inner = j >= radius && j < height - radius;
+    if (fast && j > 2 && j < height - 3) {
+      for (let k = j * w + w - 1, end = j * w; k >= end; k--) {
+        const b = k * 25;
+        const xk = z[k]! / L[b + 12]!;
+        z[k] = xk;
+        const t = k - w2, u = k - w;
+        z[t - 2]! -= L[b]! * xk;
+        z[t - 1]! -= L[b + 1]! * xk;
+        z[t]! -= L[b + 2]! * xk;
+        z[t + 1]! -= L[b + 3]! * xk;
+        z[t + 2]! -= L[b + 4]! * xk;
+        z[u - 2]! -= L[b + 5]! * xk;
+        z[u - 1]! -= L[b + 6]! * xk;
+        z[u]! -= L[b + 7]! * xk;
+        z[u + 1]! -= L[b + 8]! * xk;
+        z[u + 2]! -= L[b + 9]! * xk;
+        z[k - 2]! -= L[b + 10]! * xk;
+        z[k - 1]! -= L[b + 11]! * xk;
+      }
+      continue;
+    }
     for (let i = width - 1; i >= 0; i--) {
       const k = j * width + i;
       const base = k * size;
@@ -275,9 +342,22 @@ export function stencilComponents(A: StencilMatrix): { labels: Int32Array; count
 
 /** Subtract the mean of each label's entries (label 0 entries are zeroed). @internal */
 export function removeLabelMeans(v: Float64Array, labels: Int32Array, count: number, sums: Float64Array, counts: Float64Array): void {
+  const n = v.length;
+  if (count === 1) {
+    // One piece (the common case): the sums stay in registers.
+    let sum = 0, cnt = 0;
+    for (let k = 0; k < n; k++) {
+      if (labels[k] === 1) {
+        sum += v[k]!;
+        cnt++;
+      }
+    }
+    const mean = cnt > 0 ? sum / cnt : 0;
+    for (let k = 0; k < n; k++) v[k] = labels[k] === 0 ? 0 : v[k]! - mean;
+    return;
+  }
   sums.fill(0);
   counts.fill(0);
-  const n = v.length;
   for (let k = 0; k < n; k++) {
     const l = labels[k]!;
     sums[l]! += v[k]!;
@@ -302,7 +382,8 @@ export interface StencilSolveOptions {
  * space is spanned by the indicator vectors of `labels` (constant on each piece). PCG
  * with an incomplete-Cholesky preconditioner whose output is projected onto the
  * complement of the null space, so that from `x = 0` the iterates converge to the
- * minimum-norm solution (zero mean on every label).
+ * minimum-norm solution (zero mean on every label). An `initial` guess (copied, not
+ * changed) only shortens the iterations: the null-space part it adds is removed at the end.
  *
  * @see Kaasschieter, E. F. (1988), "Preconditioned conjugate gradients for solving
  *   singular systems", J. Computational and Applied Mathematics 24, 265–275.
@@ -314,6 +395,7 @@ export function solveStencil(
   labels: Int32Array,
   count: number,
   opts: StencilSolveOptions,
+  initial?: Float64Array,
 ): { x: Float64Array; result: PcgResult } {
   const n = b.length;
   const sums = new Float64Array(count + 1);
@@ -322,7 +404,7 @@ export function solveStencil(
   const bb = b.slice();
   removeLabelMeans(bb, labels, count, sums, counts);
   const L = incompleteCholesky(A);
-  const x = new Float64Array(n);
+  const x = initial === undefined ? new Float64Array(n) : initial.slice();
   const result = pcg(
     (v, out) => applyStencil(A, v, out),
     bb,

@@ -174,7 +174,7 @@ function fractionWithin(r: number, sp: number, sq: number): number {
  *
  * @param input - The design.
  * @returns Budget, limits, fractions and warnings.
- * @throws {@link MeniscusRangeError} for non-positive or non-finite sizes and distances,
+ * @throws {@link core!MeniscusRangeError} for non-positive or non-finite sizes and distances,
  *   an aperture wider than the pitch, or a zenith angle outside [0, π/2).
  * @see Platt, B. C. & Shack, R. (2001), "History and principles of Shack–Hartmann
  *   wavefront sensing", J. Refractive Surgery 17, S573 (dynamic range and sensitivity);
@@ -355,6 +355,9 @@ export function designSensor(input: SensorDesignInput): SensorDesign {
  * ```
  */
 export function formatSensorDesign(d: SensorDesign): string {
+  if (d === null || typeof d !== 'object' || d.spot === null || typeof d.spot !== 'object' || typeof d.spot.totalPixels !== 'number') {
+    typeError('formatSensorDesign', 'd', d, 'a SensorDesign from designSensor');
+  }
   const mm = (v: number): string => `${(v * 1e3).toFixed(3)} mm`;
   const s = (v: number | null): string => (v === null ? 'n/a' : Number.isFinite(v) ? v.toPrecision(4) : 'unbounded');
   const pct = (v: number | null): string => (v === null ? 'n/a' : `${(100 * v).toFixed(2)} %`);

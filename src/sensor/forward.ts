@@ -233,8 +233,8 @@ function checkGeometry(fn: string, geometry: unknown): SensorGeometry {
  * @param light - The guide light.
  * @param options - Tolerance and iteration cap.
  * @returns Spots, crossings, in-water directions and a status per aperture.
- * @throws {@link MeniscusTypeError} for a malformed geometry, surface or light;
- *   {@link MeniscusRangeError} for bad options.
+ * @throws {@link core!MeniscusTypeError} for a malformed geometry, surface or light;
+ *   {@link core!MeniscusRangeError} for bad options.
  * @see Snell's law in vector form: Glassner, A. (1989), An Introduction to Ray Tracing;
  *   Moisy, F., Rabaud, M. & Salsac, K. (2009), "A synthetic Schlieren method for the
  *   measurement of the topography of a liquid interface", Experiments in Fluids 46, 1021

@@ -12,7 +12,7 @@
  *
  * @module
  */
-import { checkFinite, checkOptions, checkPositive, IDENTITY3, rangeError, typeError } from '../core/index.js';
+import { checkFinite, checkOptions, checkPositive, checkVec3, IDENTITY3, rangeError, typeError } from '../core/index.js';
 import type { Mat3, MutableVec3, Vec3 } from '../core/index.js';
 import { checkRotation } from '../camera/pose.js';
 import type { ApertureArray } from './lattice.js';
@@ -67,7 +67,7 @@ export interface SensorGeometry {
  *
  * @param spec - Aperture array, depths, pose, plane size and refractive indices.
  * @returns The geometry.
- * @throws {@link MeniscusRangeError} for a non-positive (or non-finite) mask depth or
+ * @throws {@link core!MeniscusRangeError} for a non-positive (or non-finite) mask depth or
  *   plane distance (a plane at or above the mask, i.e. behind it for the light), a
  *   rotation that is not one or turns the mask away from the surface, or bad indices.
  * @example
@@ -77,6 +77,7 @@ export interface SensorGeometry {
  */
 export function createSensorGeometry(spec: SensorGeometrySpec): SensorGeometry {
   const fn = 'createSensorGeometry';
+  if (spec === undefined) typeError(fn, 'spec', spec, 'a sensor geometry spec object');
   checkOptions(fn, spec, 'spec');
   const a = spec.apertures;
   if (a === null || typeof a !== 'object' || !(a.positions instanceof Float64Array)) {
@@ -138,6 +139,9 @@ export function createSensorGeometry(spec: SensorGeometrySpec): SensorGeometry {
  * ```
  */
 export function planeToWorld(geometry: SensorGeometry, x: number, y: number): MutableVec3 {
+  checkGeometryArg('planeToWorld', geometry);
+  checkFinite('planeToWorld', 'x', x);
+  checkFinite('planeToWorld', 'y', y);
   const R = geometry.rotation, c = geometry.centre, z = -geometry.planeDistance;
   return [c[0] + R[0] * x + R[1] * y + R[2] * z, c[1] + R[3] * x + R[4] * y + R[5] * z, c[2] + R[6] * x + R[7] * y + R[8] * z];
 }
@@ -155,6 +159,8 @@ export function planeToWorld(geometry: SensorGeometry, x: number, y: number): Mu
  * ```
  */
 export function worldToSensor(geometry: SensorGeometry, point: Vec3): MutableVec3 {
+  checkGeometryArg('worldToSensor', geometry);
+  checkVec3('worldToSensor', 'point', point);
   const R = geometry.rotation, c = geometry.centre;
   const dx = point[0] - c[0], dy = point[1] - c[1], dz = point[2] - c[2];
   return [R[0] * dx + R[3] * dy + R[6] * dz, R[1] * dx + R[4] * dy + R[7] * dz, R[2] * dx + R[5] * dy + R[8] * dz];
@@ -171,6 +177,15 @@ export function worldToSensor(geometry: SensorGeometry, point: Vec3): MutableVec
  * ```
  */
 export function maskNormal(geometry: SensorGeometry): MutableVec3 {
+  checkGeometryArg('maskNormal', geometry);
   const R = geometry.rotation;
   return [R[2], R[5], R[8]];
+}
+
+/** Light shape check of a geometry handed to the small per-point helpers. */
+function checkGeometryArg(fn: string, geometry: unknown): void {
+  const g = geometry as Partial<SensorGeometry> | null;
+  if (g === null || typeof g !== 'object' || !Array.isArray(g.rotation) || g.rotation.length !== 9 || !Array.isArray(g.centre) || typeof g.planeDistance !== 'number') {
+    typeError(fn, 'geometry', geometry, 'a SensorGeometry from createSensorGeometry');
+  }
 }

@@ -11,7 +11,7 @@
  *
  * @module
  */
-import { checkInteger, checkOptions, checkOneOf, checkPositive, checkFinite, checkAllocation, rangeError } from '../core/index.js';
+import { checkInteger, checkOptions, checkOneOf, checkPositive, checkFinite, checkAllocation, rangeError, typeError } from '../core/index.js';
 
 /** The two lattices an aperture array can use. */
 export type LatticeKind = 'square' | 'hexagonal';
@@ -85,7 +85,7 @@ export const HEXAGONAL_NEIGHBOURS: readonly (readonly [number, number])[] = [
  *
  * @param spec - Lattice, pitch, size, aperture diameter, rotation, lenslet focal length.
  * @returns The array, centred on the sensor origin.
- * @throws {@link MeniscusRangeError} for a non-positive pitch or diameter, a diameter
+ * @throws {@link core!MeniscusRangeError} for a non-positive pitch or diameter, a diameter
  *   above the pitch, non-integer or non-positive counts, a non-finite rotation or a
  *   non-positive focal length.
  * @see Platt, B. C. & Shack, R. (2001), "History and principles of Shack–Hartmann
@@ -98,6 +98,7 @@ export const HEXAGONAL_NEIGHBOURS: readonly (readonly [number, number])[] = [
  */
 export function createApertureArray(spec: ApertureArraySpec): ApertureArray {
   const fn = 'createApertureArray';
+  if (spec === undefined) typeError(fn, 'spec', spec, 'an aperture-array spec object');
   checkOptions(fn, spec, 'spec');
   const lattice = spec.lattice === undefined ? 'square' : checkOneOf(fn, 'spec.lattice', spec.lattice, ['square', 'hexagonal'] as const);
   const pitch = checkPositive(fn, 'spec.pitch', spec.pitch);
@@ -175,6 +176,11 @@ export function createApertureArray(spec: ApertureArraySpec): ApertureArray {
  * ```
  */
 export function apertureAt(array: ApertureArray, i: number, j: number): number {
+  if (array === null || typeof array !== 'object' || typeof array.rows !== 'number' || typeof array.columns !== 'number') {
+    typeError('apertureAt', 'array', array, 'an ApertureArray from createApertureArray');
+  }
+  if (typeof i !== 'number') typeError('apertureAt', 'i', i, 'a number');
+  if (typeof j !== 'number') typeError('apertureAt', 'j', j, 'a number');
   if (!(j >= 0 && j < array.rows) || !Number.isInteger(i) || !Number.isInteger(j)) return -1;
   const col = array.lattice === 'square' ? i : i + Math.floor(j / 2);
   if (!(col >= 0 && col < array.columns)) return -1;
@@ -192,6 +198,7 @@ export function apertureAt(array: ApertureArray, i: number, j: number): number {
  * ```
  */
 export function latticeNeighbours(array: ApertureArray | LatticeKind): readonly (readonly [number, number])[] {
-  const kind = typeof array === 'string' ? array : array.lattice;
+  const given = typeof array === 'string' || array === null || typeof array !== 'object' ? array : array.lattice;
+  const kind = checkOneOf('latticeNeighbours', typeof array === 'string' ? 'array' : 'array.lattice', given, ['square', 'hexagonal'] as const);
   return kind === 'square' ? SQUARE_NEIGHBOURS : HEXAGONAL_NEIGHBOURS;
 }

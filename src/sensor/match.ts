@@ -264,8 +264,8 @@ class SpotHash {
  * @param reference - The flat-water reference of the aperture array.
  * @param options - Method and tolerances.
  * @returns The pairing and its flags.
- * @throws {@link MeniscusTypeError} for mismatched array lengths;
- *   {@link MeniscusRangeError} for non-finite positions or options out of range.
+ * @throws {@link core!MeniscusTypeError} for mismatched array lengths;
+ *   {@link core!MeniscusRangeError} for non-finite positions or options out of range.
  * @see Lee, J., Shack, R. V. & Descour, M. R. (2005), "Sorting method to extend the
  *   dynamic range of the Shack–Hartmann wave-front sensor", Applied Optics 44(23), 4838;
  *   Leroux, C. & Dainty, C. (2010), "Estimation of centroid positions with a matched-filter
@@ -466,7 +466,9 @@ function matchGrow(
   for (let k = 0; k < a.count; k++) if (ref.status[k] === Status.ok) { cxr += ref.x[k]!; cyr += ref.y[k]!; nr++; }
   cxr /= Math.max(1, nr);
   cyr /= Math.max(1, nr);
-  order.sort((p, q) => Math.hypot(hash.x[p]! - cxr, hash.y[p]! - cyr) - Math.hypot(hash.x[q]! - cxr, hash.y[q]! - cyr));
+  const dist = new Float64Array(ns);
+  for (let k = 0; k < ns; k++) dist[k] = Math.hypot(hash.x[k]! - cxr, hash.y[k]! - cyr);
+  order.sort((p, q) => dist[p]! - dist[q]!);
   let seedCursor = 0;
   const queues: number[][] = [[], [], [], []];
   const qhead = [0, 0, 0, 0];
@@ -637,14 +639,26 @@ function matchGrow(
     }
     mx /= region.length;
     my /= region.length;
+    // Which nodes of the rectangle widened by M can still take a spot: an aperture with a
+    // reference, not yet matched.
+    const FW = W + 2 * M, FH = H + 2 * M;
+    const free = new Uint8Array(FW * FH);
+    for (let fj = 0; fj < FH; fj++) {
+      for (let fi = 0; fi < FW; fi++) {
+        const k = apertureAt(a, fi - M + imin, fj - M + jmin);
+        free[fj * FW + fi] = k >= 0 && ref.status[k] === Status.ok && apertureStatus[k] !== Status.ok ? 1 : 0;
+      }
+    }
+    const regionCell = new Int32Array(region.length);
+    for (let t = 0; t < region.length; t++) {
+      const n = region[t]!;
+      regionCell[t] = (Math.floor(n / W) + M) * FW + (n % W) + M;
+    }
     for (let dj = -M; dj <= M; dj++) {
       for (let di = -M; di <= M; di++) {
         let out = 0;
-        for (const n of region) {
-          const i = (n % W) + imin, j = Math.floor(n / W) + jmin;
-          const k = apertureAt(a, i + di, j + dj);
-          if (k < 0 || ref.status[k] !== Status.ok || apertureStatus[k] === Status.ok) out++;
-        }
+        const shift = dj * FW + di;
+        for (let t = 0; t < regionCell.length; t++) if (!free[regionCell[t]! + shift]) out++;
         // Mean shift under this offset: the labels' shift minus the lattice step.
         const sxm = mx - di * aff.b1x - dj * aff.b2x - ex, sym = my - di * aff.b1y - dj * aff.b2y - ey;
         best.push({ di, dj, out, shift: Math.hypot(sxm, sym) });

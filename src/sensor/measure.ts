@@ -32,7 +32,12 @@ export interface SensorSetup {
 
 /** Options of {@link measureFrame}. */
 export interface MeasureFrameOptions {
-  /** Spot detection. @defaultValue `{}` (automatic background and threshold, iterative centroid) */
+  /**
+   * Spot detection. With `detect.windows` (for example around the previous frame's
+   * spots), the frame is searched again in full when the windows yield fewer than 90 % as
+   * many spots as there are windows (a warning says so). @defaultValue `{}` (automatic
+   * background and threshold, iterative centroid, the whole frame)
+   */
   detect?: DetectSpotsOptions;
   /** Matching. @defaultValue `{ method: 'grow' }` */
   match?: MatchSpotsOptions;
@@ -92,7 +97,7 @@ const now = (): number => (typeof performance !== 'undefined' ? performance.now(
  * @param options - Options of each stage.
  * @returns Spots, matches, the reconstruction (or `null` with a warning when fewer than
  *   3 apertures gave a slope, e.g. an empty or saturated frame) and diagnostics.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for malformed input.
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for malformed input.
  * @see {@link detectSpots}, {@link matchSpots}, {@link slopesFromSpots}, {@link reconstructSurface}.
  * @example
  * ```ts
@@ -108,7 +113,13 @@ export function measureFrame(frame: Image, setup: SensorSetup, options?: Measure
   }
   const o = checkOptions(fn, options);
   const t0 = now();
-  const spots = detectSpots(frame, o.detect);
+  let spots = detectSpots(frame, o.detect);
+  const windowNote: string[] = [];
+  const win = o.detect?.windows;
+  if (win !== undefined && spots.count < 0.9 * win.x.length) {
+    windowNote.push(`the search windows held ${spots.count} spot(s) for ${win.x.length} window(s): the whole frame was searched`);
+    spots = detectSpots(frame, { ...o.detect, windows: undefined });
+  }
   const t1 = now();
   const planeSpots = pixelsToPlane(setup.geometry, setup.view, spots.x, spots.y, spots.sigmaX, spots.sigmaY);
   const reference = setup.reference ?? referenceSpots(setup.geometry, setup.light);
@@ -135,7 +146,7 @@ export function measureFrame(frame: Image, setup: SensorSetup, options?: Measure
   }
   const match: SpotMatch = { ...sub, spotOfAperture, apertureOfSpot, spotStatus, extra: sub.extra + (spots.count - keep) };
   const t2 = now();
-  const warnings = [...spots.warnings];
+  const warnings = [...windowNote, ...spots.warnings];
   let reconstruction: Reconstruction | null = null;
   try {
     reconstruction = reconstructSurface(setup.geometry, setup.light, aperturePositions(planeSpots, spotOfAperture), o.reconstruct);

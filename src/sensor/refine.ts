@@ -99,16 +99,20 @@ function samplesFor(s: SlopeSamples, weighted: boolean): { x: Float64Array; y: F
  * Pass 0 finds each ray's crossing at the mean level and integrates the slopes there
  * (scattered-point least squares). Each refinement pass builds a bicubic surface from the
  * heights, re-traces every ray (aperture → up) to it, re-solves the normal with the
- * guide light's direction at the new crossing, and integrates again; it stops when the
- * largest height change is below `tolerance` or after `maxIterations` passes.
+ * guide light's direction at the new crossing, and integrates again (its solver started
+ * from the previous heights); it stops when the largest height change is below
+ * `tolerance` or after `maxIterations` passes. The integrator's smooth slope model (see
+ * {@link ReconstructOptions.slopeModel}) makes each pass depend continuously on the
+ * crossing points, so the loop contracts (each pass shrinks the change by an order of
+ * magnitude on typical seas) instead of alternating when a crossing sits on a cell edge.
  *
  * @param geometry - The sensor.
  * @param light - The guide light.
  * @param spots - Spot positions per aperture (see {@link aperturePositions}).
  * @param options - Grid, smoothness, refinement controls.
  * @returns Heights, the single-pass heights, the last slope samples and the loop's report.
- * @throws {@link MeniscusRangeError} when fewer than 3 apertures give a slope, or for bad
- *   options; {@link MeniscusTypeError} for malformed input.
+ * @throws {@link core!MeniscusRangeError} when fewer than 3 apertures give a slope, or for bad
+ *   options; {@link core!MeniscusTypeError} for malformed input.
  * @see Moisy, F., Rabaud, M. & Salsac, K. (2009), "A synthetic Schlieren method for the
  *   measurement of the topography of a liquid interface", Experiments in Fluids 46, 1021
  *   (the error of assuming the mean level, and its correction);
@@ -147,9 +151,14 @@ export function reconstructSurface(geometry: SensorGeometry, light: GuideLight, 
     }
     spec = { width: Math.max(2, Math.ceil((x1 - x0) / d) + 3), height: Math.max(2, Math.ceil((y1 - y0) / d) + 3), dx: d, dy: d, x0: x0 - d, y0: y0 - d };
   }
-  // Refinement passes start the solver from the previous heights.
+  // Refinement passes start the solver from the previous heights. The solver's tolerance
+  // leaves height errors near 1e-11 m on sensor grids, far below the loop's tolerance.
   const integ = (s: typeof data, start?: Float64Array): ScatteredResult =>
-    integrateScattered(s, spec, start === undefined ? { smoothness, region: 'grid', model } : { smoothness, region: 'grid', model, initialGuess: start });
+    integrateScattered(
+      s,
+      spec,
+      start === undefined ? { smoothness, region: 'grid', model, tolerance: 1e-9 } : { smoothness, region: 'grid', model, tolerance: 1e-9, initialGuess: start },
+    );
   // Nodes at the corners of grid cells holding a sample: the ones data reach.
   const supported = (s: typeof data, g: Grid): Mask => {
     const m = new Uint8Array(g.width * g.height);

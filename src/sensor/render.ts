@@ -154,7 +154,7 @@ function gaussianProfile(sigma: number): SpotProfile {
  * @param view - How the camera sees the plane.
  * @param options - Flux, background, noise, blur, wavelength, seed.
  * @returns The frame and the true spot centres in pixels.
- * @throws {@link MeniscusTypeError} / {@link MeniscusRangeError} for malformed input or
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for malformed input or
  *   options out of range.
  * @see Born, M. & Wolf, E. (1999), Principles of Optics, §8.5.2 (Airy pattern);
  *   Zhang, B., Zerubia, J. & Olivo-Marin, J.-C. (2007), "Gaussian approximations of

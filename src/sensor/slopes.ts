@@ -6,7 +6,6 @@
  * @module
  */
 import { checkFloat64Array, checkOptions, Status, typeError } from '../core/index.js';
-import { normalFromRays, slopesFromNormal } from '../optics/index.js';
 import { checkSurface, intersectSurface } from '../surface/index.js';
 import type { Surface } from '../surface/index.js';
 import type { GuideLight } from '../sun/index.js';
@@ -67,15 +66,62 @@ export interface ApertureSpots {
   readonly cyy?: Float64Array;
 }
 
-function slopeOf(g: SensorGeometry, light: GuideLight, X: readonly [number, number, number], tx: number, ty: number, tz: number, out: Float64Array): boolean {
-  const L = light.toLight(X);
-  const n = normalFromRays([-L[0], -L[1], -L[2]], [tx, ty, tz], g.nAir, g.nWater);
-  if (n === null || !(n[2] > 0)) return false;
-  const pq = slopesFromNormal(n);
-  if (pq === null) return false;
-  out[0] = pq[0];
-  out[1] = pq[1];
+/**
+ * Slopes of the interface that refracts the light travelling along `(ix, iy, iz)` (unit)
+ * into the in-water direction `(tx, ty, tz)` (unit): the inverse Snell law `n ∥ n_air·i −
+ * n_water·t`, oriented against the incident light, as `normalFromRays` and
+ * `slopesFromNormal` give it, without allocating. False where no interface does it or
+ * its normal does not point up.
+ */
+function slopeOf(nAir: number, nWater: number, ix: number, iy: number, iz: number, tx: number, ty: number, tz: number, out: Float64Array): boolean {
+  const mx = nAir * ix - nWater * tx;
+  const my = nAir * iy - nWater * ty;
+  const mz = nAir * iz - nWater * tz;
+  const im = ix * mx + iy * my + iz * mz;
+  const tm = tx * mx + ty * my + tz * mz;
+  if (!(im * tm > 0)) return false;
+  // The unit normal is ±m/|m| with the sign that opposes the incident light; its z must be > 0.
+  const nz = im > 0 ? -mz : mz;
+  if (!(nz > 0)) return false;
+  out[0] = -mx / mz;
+  out[1] = -my / mz;
   return true;
+}
+
+/**
+ * Where the ray from `(ox, oy, oz)` along the unit direction `(dx, dy, dz)` (dz > 0)
+ * crosses the surface, by safeguarded Newton steps on `g(t) = oz + t·dz − h(x(t), y(t))`,
+ * for the case where the surface's slope bound makes `g` strictly increasing (so the
+ * crossing is unique and the first one along the ray). Writes t into `res[0]` and
+ * returns true; returns false where that case does not hold or the steps leave the
+ * surface's domain, and the caller then uses the general intersection.
+ */
+function crossUp(surface: Surface, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, grad: Float64Array, res: Float64Array): boolean {
+  const horiz = Math.sqrt(dx * dx + dy * dy);
+  if (!(dz > 0) || !(surface.maxSlope * horiz < 0.5 * dz)) return false;
+  const b = surface.bounds;
+  let ta = Math.max(0, (b.zMin - oz) / dz);
+  let tb = (b.zMax - oz) / dz;
+  if (!(tb >= ta)) return false;
+  // From the mean level (inside the bracket).
+  let t = Math.min(Math.max(-oz / dz, ta), tb);
+  for (let it = 0; it < 40; it++) {
+    const x = ox + t * dx, y = oy + t * dy;
+    if (!(x >= b.xMin && x <= b.xMax && y >= b.yMin && y <= b.yMax)) return false;
+    const g = oz + t * dz - surface.heightGradient(x, y, grad);
+    if (Math.abs(g) <= 1e-9) {
+      res[0] = t;
+      return true;
+    }
+    if (g < 0) ta = t;
+    else tb = t;
+    const dg = dz - (grad[0]! * dx + grad[1]! * dy);
+    let tn = t - g / dg;
+    if (!(tn >= ta && tn <= tb)) tn = 0.5 * (ta + tb);
+    if (tn === t) return false;
+    t = tn;
+  }
+  return false;
 }
 
 /**
@@ -93,7 +139,7 @@ function slopeOf(g: SensorGeometry, light: GuideLight, X: readonly [number, numb
  * @param spots - Spot positions per aperture (see {@link aperturePositions}).
  * @param options - The surface for the crossing points.
  * @returns One slope sample per aperture.
- * @throws {@link MeniscusTypeError} for arrays of the wrong length or a malformed light or surface.
+ * @throws {@link core!MeniscusTypeError} for arrays of the wrong length or a malformed light or surface.
  * @see Cox, C. & Munk, W. (1954), JOSA 44(11), 838 (slopes from refracted and reflected
  *   light); Born, M. & Wolf, E. (1999), Principles of Optics, §1.5.1 (Snell's law);
  *   Zhang, X. & Cox, C. S. (1994), "Measuring the two-dimensional structure of a wavy
@@ -125,6 +171,9 @@ export function slopesFromSpots(geometry: SensorGeometry, light: GuideLight, spo
   const R = geometry.rotation;
   const e1 = [R[0], R[3], R[6]], e2 = [R[1], R[4], R[7]];
   const pq = new Float64Array(2), pa = new Float64Array(2), pb = new Float64Array(2);
+  const grad = new Float64Array(2), res = new Float64Array(1);
+  const { nAir, nWater } = geometry;
+  const X3: [number, number, number] = [0, 0, 0];
   const h = 1e-6 * geometry.planeDistance;
   for (let k = 0; k < n; k++) {
     const sx = spots.x[k]!, sy = spots.y[k]!;
@@ -134,34 +183,48 @@ export function slopesFromSpots(geometry: SensorGeometry, light: GuideLight, spo
     }
     const ax = geometry.apertureWorld[3 * k]!, ay = geometry.apertureWorld[3 * k + 1]!, az = geometry.apertureWorld[3 * k + 2]!;
     const S = planeToWorld(geometry, sx, sy);
-    const dirOf = (Sx: number, Sy: number, Sz: number): [number, number, number] => {
-      const dx = Sx - ax, dy = Sy - ay, dz = Sz - az;
-      const l = Math.hypot(dx, dy, dz);
-      return [dx / l, dy / l, dz / l];
-    };
-    const t = dirOf(S[0], S[1], S[2]);
-    if (!(t[2] < 0)) {
+    let t0 = S[0] - ax, t1 = S[1] - ay, t2 = S[2] - az;
+    const tl = Math.hypot(t0, t1, t2);
+    t0 /= tl;
+    t1 /= tl;
+    t2 /= tl;
+    if (!(t2 < 0)) {
       status[k] = Status.blocked;
       continue;
     }
-    const hit = intersectSurface(surface, [ax, ay, az], [-t[0], -t[1], -t[2]]);
-    if (hit.status !== 'ok') {
-      status[k] = Status.miss;
-      continue;
+    // Back up the ray to the surface: Newton steps where the crossing is unique, else the
+    // general intersection.
+    let cx: number, cy: number, cz: number;
+    if (crossUp(surface, ax, ay, az, -t0, -t1, -t2, grad, res)) {
+      cx = ax - res[0]! * t0;
+      cy = ay - res[0]! * t1;
+      cz = az - res[0]! * t2;
+    } else {
+      const hit = intersectSurface(surface, [ax, ay, az], [-t0, -t1, -t2]);
+      if (hit.status !== 'ok') {
+        status[k] = Status.miss;
+        continue;
+      }
+      [cx, cy, cz] = hit.point;
     }
-    const C = hit.point;
-    if (!slopeOf(geometry, light, C, t[0], t[1], t[2], pq)) {
+    X3[0] = cx;
+    X3[1] = cy;
+    X3[2] = cz;
+    const L = light.toLight(X3);
+    const ll = Math.hypot(L[0], L[1], L[2]);
+    const ix = -L[0] / ll, iy = -L[1] / ll, iz = -L[2] / ll;
+    if (!slopeOf(nAir, nWater, ix, iy, iz, t0, t1, t2, pq)) {
       status[k] = Status.inconsistent;
       continue;
     }
-    X[k] = C[0];
-    Y[k] = C[1];
-    Z[k] = C[2];
+    X[k] = cx;
+    Y[k] = cy;
+    Z[k] = cz;
     P[k] = pq[0]!;
     Q[k] = pq[1]!;
-    dirs[3 * k] = t[0];
-    dirs[3 * k + 1] = t[1];
-    dirs[3 * k + 2] = t[2];
+    dirs[3 * k] = t0;
+    dirs[3 * k + 1] = t1;
+    dirs[3 * k + 2] = t2;
     status[k] = Status.ok;
     // Jacobian of (p, q) with respect to the spot's plane coordinates.
     const cxx = spots.cxx?.[k] ?? 0, cxy = spots.cxy?.[k] ?? 0, cyy = spots.cyy?.[k] ?? 0;
@@ -169,9 +232,12 @@ export function slopesFromSpots(geometry: SensorGeometry, light: GuideLight, spo
     let good = true;
     for (let axis = 0; axis < 2 && good; axis++) {
       const e = axis === 0 ? e1 : e2;
-      const ta = dirOf(S[0] + h * e[0]!, S[1] + h * e[1]!, S[2] + h * e[2]!);
-      const tb = dirOf(S[0] - h * e[0]!, S[1] - h * e[1]!, S[2] - h * e[2]!);
-      good = slopeOf(geometry, light, C, ta[0], ta[1], ta[2], pa) && slopeOf(geometry, light, C, tb[0], tb[1], tb[2], pb);
+      const ua = S[0] + h * e[0]! - ax, va = S[1] + h * e[1]! - ay, wa = S[2] + h * e[2]! - az;
+      const la = Math.hypot(ua, va, wa);
+      const ub = S[0] - h * e[0]! - ax, vb = S[1] - h * e[1]! - ay, wb = S[2] - h * e[2]! - az;
+      const lb = Math.hypot(ub, vb, wb);
+      good =
+        slopeOf(nAir, nWater, ix, iy, iz, ua / la, va / la, wa / la, pa) && slopeOf(nAir, nWater, ix, iy, iz, ub / lb, vb / lb, wb / lb, pb);
       if (!good) break;
       if (axis === 0) {
         j00 = (pa[0]! - pb[0]!) / (2 * h);
@@ -196,7 +262,7 @@ export function slopesFromSpots(geometry: SensorGeometry, light: GuideLight, spo
  * @param spots - Plane positions per spot, with optional covariances.
  * @param spotOfAperture - For each aperture, its spot index or −1 (from {@link matchSpots}).
  * @returns Positions per aperture; NaN where an aperture has no spot.
- * @throws {@link MeniscusTypeError} for mismatched arrays.
+ * @throws {@link core!MeniscusTypeError} for mismatched arrays.
  * @example
  * ```ts
  * const per = aperturePositions(planeSpots, match.spotOfAperture);
@@ -205,7 +271,8 @@ export function slopesFromSpots(geometry: SensorGeometry, light: GuideLight, spo
 export function aperturePositions(spots: ApertureSpots, spotOfAperture: Int32Array): ApertureSpots {
   const fn = 'aperturePositions';
   if (!(spotOfAperture instanceof Int32Array)) typeError(fn, 'spotOfAperture', spotOfAperture, 'an Int32Array');
-  const m = spots.x.length;
+  if (spots === null || typeof spots !== 'object') typeError(fn, 'spots', spots, 'spot positions { x, y }');
+  const m = checkFloat64Array(fn, 'spots.x', spots.x).length;
   checkFloat64Array(fn, 'spots.y', spots.y, 1, m);
   const n = spotOfAperture.length;
   const x = new Float64Array(n).fill(NaN), y = new Float64Array(n).fill(NaN);

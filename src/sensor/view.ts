@@ -59,7 +59,7 @@ export interface PlaneViewOptions {
  *
  * @param options - Image size, pixel size on the plane, centre.
  * @returns The view.
- * @throws {@link MeniscusRangeError} for non-positive sizes.
+ * @throws {@link core!MeniscusRangeError} for non-positive sizes.
  * @example
  * ```ts
  * const view = createPlaneView({ width: 1024, height: 1024, pixelSize: 50e-6 });
@@ -185,7 +185,7 @@ export interface PlaneSpots {
  * @param sigmaX - 1-σ of `px`, pixels (optional; zero covariance when absent).
  * @param sigmaY - 1-σ of `py`, pixels.
  * @returns Plane positions and covariances.
- * @throws {@link MeniscusTypeError} for mismatched lengths or a malformed view.
+ * @throws {@link core!MeniscusTypeError} for mismatched lengths or a malformed view.
  * @example
  * ```ts
  * const ps = pixelsToPlane(geometry, view, spots.x, spots.y, spots.sigmaX, spots.sigmaY);
