@@ -9,6 +9,9 @@ const areas = readdirSync('src', { withFileTypes: true })
 
 const entry: Record<string, string> = { index: 'src/index.ts' };
 for (const a of areas) entry[`${a}/index`] = `src/${a}/index.ts`;
+// The command line and its worker script (found beside the bundled file at run time).
+entry['node/cli/main'] = 'src/node/cli/main.ts';
+entry['node/cli/worker'] = 'src/node/cli/worker.ts';
 
 export default defineConfig({
   entry,
@@ -20,5 +23,5 @@ export default defineConfig({
   treeshake: true,
   target: 'es2022',
   platform: 'neutral',
-  external: ['node:fs', 'node:path', 'node:worker_threads', 'node:os', 'node:url', 'pngjs'],
+  external: [/^node:/, 'pngjs', 'ajv'],
 });
