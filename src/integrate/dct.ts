@@ -63,7 +63,7 @@ class DctSolver implements PreparedDctPoisson {
     for (let k = 0; k < w; k++) this.lamX[k] = (2 - 2 * Math.cos((Math.PI * k) / w)) / (dx * dx);
     this.lamY = new Float64Array(h);
     for (let k = 0; k < h; k++) this.lamY[k] = (2 - 2 * Math.cos((Math.PI * k) / h)) / (dy * dy);
-    this.block = new Float64Array(COL_BLOCK * h);
+    this.block = new Float64Array(COL_BLOCK * colStride(h));
   }
 
   solve(p: Grid, q: Grid, options?: DctPoissonFrameOptions): IntegrationResult {
@@ -129,15 +129,39 @@ function rhsRow(pd: Float64Array, qd: Float64Array, w: number, h: number, j: num
   const row = j * w;
   const up = j > 0;
   const down = j + 1 < h;
-  for (let i = 0; i < w; i++) {
-    const k = row + i;
-    let f = 0;
-    if (i > 0) f += (pd[k - 1]! + pd[k]!) * hx;
-    if (i + 1 < w) f -= (pd[k]! + pd[k + 1]!) * hx;
-    if (up) f += (qd[k - w]! + qd[k]!) * hy;
-    if (down) f -= (qd[k]! + qd[k + w]!) * hy;
-    out[k] = f;
+  if (up && down && w > 2) {
+    // interior row: the ends with their one x pair each, the middle branch-free (the
+    // same sums in the same order as the general loop below)
+    rhsAt(pd, qd, w, row, 0, true, true, hx, hy, out);
+    for (let k = row + 1, end = row + w - 1; k < end; k++) {
+      out[k] = (pd[k - 1]! + pd[k]!) * hx - (pd[k]! + pd[k + 1]!) * hx + (qd[k - w]! + qd[k]!) * hy - (qd[k]! + qd[k + w]!) * hy;
+    }
+    rhsAt(pd, qd, w, row, w - 1, true, true, hx, hy, out);
+    return;
   }
+  for (let i = 0; i < w; i++) rhsAt(pd, qd, w, row, i, up, down, hx, hy, out);
+}
+
+/** One sample of {@link rhsRow}: the pairs that exist at column i of the row. */
+function rhsAt(
+  pd: Float64Array,
+  qd: Float64Array,
+  w: number,
+  row: number,
+  i: number,
+  up: boolean,
+  down: boolean,
+  hx: number,
+  hy: number,
+  out: Float64Array,
+): void {
+  const k = row + i;
+  let f = 0;
+  if (i > 0) f += (pd[k - 1]! + pd[k]!) * hx;
+  if (i + 1 < w) f -= (pd[k]! + pd[k + 1]!) * hx;
+  if (up) f += (qd[k - w]! + qd[k]!) * hy;
+  if (down) f -= (qd[k]! + qd[k + w]!) * hy;
+  out[k] = f;
 }
 
 /**
@@ -163,12 +187,20 @@ function residualRows(z: Float64Array, pd: Float64Array, qd: Float64Array, w: nu
 }
 
 /** Columns per tile of the column passes. */
-const COL_BLOCK = 16;
+const COL_BLOCK = 32;
+
+/**
+ * Doubles per column of the tile: the height plus one cache line, so that columns a
+ * power of two apart do not fall in the same cache sets.
+ */
+function colStride(h: number): number {
+  return h + 8;
+}
 
 /**
  * Along y, per tile of columns: gather the tile into contiguous sequences, DCT-II them
  * two at a time, divide by the eigenvalues of the Neumann Laplacian (the zero frequency,
- * the piston, set to 0), transform back and scatter. Fusing the solve into the column
+ * the piston, set to 0: its eigenvalue is 0), transform back and scatter. Fusing the solve into the column
  * pass keeps each tile in cache for all three steps.
  */
 function columnSolve(
@@ -180,23 +212,20 @@ function columnSolve(
   lx: Float64Array,
   ly: Float64Array,
 ): void {
+  const cs = colStride(h);
   for (let i0 = 0; i0 < w; i0 += COL_BLOCK) {
     const nb = Math.min(COL_BLOCK, w - i0);
     for (let j = 0; j < h; j++) {
       const s = j * w + i0;
-      for (let c = 0; c < nb; c++) blk[c * h + j] = out[s + c]!;
+      for (let c = 0, t = j; c < nb; c++, t += cs) blk[t] = out[s + c]!;
     }
-    for (let c = 0; c < nb; c += 2) dct.forwardPair(blk, c * h, c + 1 < nb ? (c + 1) * h : -1, 1);
-    for (let c = 0; c < nb; c++) {
-      const a = lx[i0 + c]!;
-      const base = c * h;
-      for (let j = 0; j < h; j++) blk[base + j] = blk[base + j]! / (a + ly[j]!);
+    for (let c = 0; c < nb; c += 2) {
+      const two = c + 1 < nb;
+      dct.solvePair(blk, c * cs, two ? (c + 1) * cs : -1, 1, lx[i0 + c]!, two ? lx[i0 + c + 1]! : 0, ly);
     }
-    if (i0 === 0) blk[0] = 0;
-    for (let c = 0; c < nb; c += 2) dct.inversePair(blk, c * h, c + 1 < nb ? (c + 1) * h : -1, 1);
     for (let j = 0; j < h; j++) {
       const s = j * w + i0;
-      for (let c = 0; c < nb; c++) out[s + c] = blk[c * h + j]!;
+      for (let c = 0, t = j; c < nb; c++, t += cs) out[s + c] = blk[t]!;
     }
   }
 }

@@ -1,51 +1,58 @@
 /**
  * Fast transforms on typed arrays for the transform-based integrators: complex FFTs of
- * any length (fft.js for powers of two, Bluestein's chirp-z algorithm on top of it for
- * every other length), fast DCT-II / DCT-III of any length by Makhoul's reordering, and
- * a cache-blocked transpose. Complex data is interleaved `re, im, re, im, …` in
- * `Float64Array`s; nothing allocates per element.
+ * any length (the library's radix-4 kernel, `fft-kernel.ts`, for powers of two;
+ * Bluestein's chirp-z algorithm on top of it for every other length), fast DCT-II /
+ * DCT-III of any length by Makhoul's reordering, and a cache-blocked transpose. Complex
+ * data is interleaved `re, im, re, im, …` in `Float64Array`s; nothing allocates per
+ * element.
  *
  * These are building blocks of the integrators, not part of the public API.
  *
  * @module
  * @internal
  */
-import FFT from 'fft.js';
+import { Pow2Fft } from './fft-kernel.js';
 
-/** A plan for the complex DFT of one length. Not re-entrant: it owns scratch buffers. */
+/**
+ * A plan for the complex DFT of one length. Not re-entrant: it owns scratch buffers.
+ *
+ * Besides the out-of-place {@link ComplexFft.forward} / {@link ComplexFft.inverse}, two
+ * unscaled in-place forms let a caller fold the kernel's reordering into a copy it makes
+ * anyway: {@link ComplexFft.fromOrder} takes element j at position `order[j]` and leaves
+ * the spectrum in natural order; {@link ComplexFft.toOrder} takes natural order and
+ * leaves `X[k]` at position `order[k]`. `order` is the bit reversal for powers of two and
+ * the identity otherwise.
+ */
 export class ComplexFft {
   /** Transform length. */
   readonly n: number;
-  private readonly pow2: FFT | null;
+  /** The storage order of {@link ComplexFft.fromOrder} input / {@link ComplexFft.toOrder} output. */
+  readonly order: Int32Array;
+  private readonly pow2: Pow2Fft | null;
   // Bluestein state (non-power-of-two lengths)
   private readonly m: number;
-  private readonly inner: FFT | null;
+  private readonly inner: Pow2Fft | null;
   private readonly chirp: Float64Array | null; // w[k] = exp(-iπk²/n)
-  private readonly kernel: Float64Array | null; // FFT of conj(w) arranged circularly
+  private readonly kernel: Float64Array | null; // FFT of conj(w) arranged circularly, times 1/m
   private readonly a: Float64Array | null;
   private readonly b: Float64Array | null;
-  private readonly conjBuf: Float64Array | null;
 
   constructor(n: number) {
     this.n = n;
-    if (n >= 2 && (n & (n - 1)) === 0) {
-      this.pow2 = new FFT(n);
+    if ((n & (n - 1)) === 0) {
+      this.pow2 = new Pow2Fft(n);
+      this.order = this.pow2.rev;
       this.m = n;
       this.inner = null;
-      this.chirp = this.kernel = this.a = this.b = this.conjBuf = null;
+      this.chirp = this.kernel = this.a = this.b = null;
       return;
     }
     this.pow2 = null;
-    if (n === 1) {
-      this.m = 1;
-      this.inner = null;
-      this.chirp = this.kernel = this.a = this.b = this.conjBuf = null;
-      return;
-    }
+    this.order = new Int32Array(n).map((_, k) => k);
     let m = 2;
     while (m < 2 * n - 1) m <<= 1;
     this.m = m;
-    this.inner = new FFT(m);
+    this.inner = new Pow2Fft(m);
     const chirp = new Float64Array(2 * n);
     const twoN = 2 * n;
     for (let k = 0; k < n; k++) {
@@ -66,89 +73,102 @@ export class ComplexFft {
       bk[2 * (m - k)] = re;
       bk[2 * (m - k) + 1] = im;
     }
-    const kernel = new Float64Array(2 * m);
-    this.inner.transform(kernel, bk);
+    // the spectrum of the kernel in the inner kernel's bit-reversed order, with the 1/m
+    // of the inner inverse folded in
+    this.inner.toOrder(bk, 0, false);
+    const s = 1 / m;
+    for (let k = 0; k < 2 * m; k++) bk[k] = bk[k]! * s;
     this.chirp = chirp;
-    this.kernel = kernel;
+    this.kernel = bk;
     this.a = new Float64Array(2 * m);
-    this.b = new Float64Array(2 * m);
-    this.conjBuf = new Float64Array(2 * n);
+    this.b = new Float64Array(2 * n);
   }
 
   /** Forward DFT `X[k] = Σ x[j] e^{-2πi jk/n}`; `out` and `input` must differ (length 2n). */
   forward(out: Float64Array, input: Float64Array): void {
     if (this.pow2) {
-      this.pow2.transform(out, input);
+      this.pow2.transform(out, input, false);
       return;
     }
-    if (this.n === 1) {
-      out[0] = input[0]!;
-      out[1] = input[1]!;
-      return;
-    }
-    this.bluestein(out, input);
+    this.bluestein(out, 0, input, 0, false);
   }
 
   /** Inverse DFT with the 1/n factor; `out` and `input` must differ (length 2n). */
   inverse(out: Float64Array, input: Float64Array): void {
-    if (this.pow2) {
-      this.pow2.inverseTransform(out, input);
-      return;
-    }
     const n = this.n;
-    if (n === 1) {
-      out[0] = input[0]!;
-      out[1] = input[1]!;
-      return;
-    }
-    // x = conj(DFT(conj(X))) / n
-    const c = this.conjBuf!;
-    for (let k = 0; k < 2 * n; k += 2) {
-      c[k] = input[k]!;
-      c[k + 1] = -input[k + 1]!;
-    }
-    this.bluestein(out, c);
+    if (this.pow2) this.pow2.transform(out, input, true);
+    else this.bluestein(out, 0, input, 0, true);
     const s = 1 / n;
-    for (let k = 0; k < 2 * n; k += 2) {
-      out[k] = out[k]! * s;
-      out[k + 1] = -out[k + 1]! * s;
-    }
+    for (let k = 0; k < 2 * n; k++) out[k] = out[k]! * s;
   }
 
-  private bluestein(out: Float64Array, input: Float64Array): void {
+  /**
+   * Unscaled DFT in place (`e^{+2πi jk/n}` when `inverse`), input element j at complex
+   * position `off/2 + order[j]`, output `X[k]` at `off/2 + k`.
+   */
+  fromOrder(x: Float64Array, off: number, inverse: boolean): void {
+    if (this.pow2) this.pow2.fromOrder(x, off, inverse);
+    else this.bluesteinInPlace(x, off, inverse);
+  }
+
+  /**
+   * Unscaled DFT in place (`e^{+2πi jk/n}` when `inverse`), input element j at complex
+   * position `off/2 + j`, output `X[k]` at `off/2 + order[k]`.
+   */
+  toOrder(x: Float64Array, off: number, inverse: boolean): void {
+    if (this.pow2) this.pow2.toOrder(x, off, inverse);
+    else this.bluesteinInPlace(x, off, inverse);
+  }
+
+  private bluesteinInPlace(x: Float64Array, off: number, inverse: boolean): void {
+    const b = this.b!;
+    const n2 = 2 * this.n;
+    for (let k = 0; k < n2; k++) b[k] = x[off + k]!;
+    this.bluestein(x, off, b, 0, inverse);
+  }
+
+  /**
+   * Unscaled DFT of length n by Bluestein's algorithm, `X[k] = w[k] Σ_j (x[j] w[j])
+   * conj(w[k − j])` with `w[k] = e^{∓iπk²/n}`: one circular convolution of length m by
+   * the kernel (decimation in frequency forward, pointwise product in bit-reversed
+   * order, decimation in time back, so no reordering pass). The inverse uses the
+   * conjugate chirp and the conjugate kernel (the kernel of the conjugate chirp is the
+   * conjugate of the reversed kernel, which the symmetric kernel equals).
+   */
+  private bluestein(out: Float64Array, oo: number, input: Float64Array, io: number, inverse: boolean): void {
     const n = this.n;
     const m = this.m;
     const w = this.chirp!;
     const a = this.a!;
-    const b = this.b!;
     const K = this.kernel!;
     const inner = this.inner!;
+    const sg = inverse ? -1 : 1;
     for (let k = 0; k < n; k++) {
-      const xr = input[2 * k]!;
-      const xi = input[2 * k + 1]!;
+      const xr = input[io + 2 * k]!;
+      const xi = input[io + 2 * k + 1]!;
       const wr = w[2 * k]!;
-      const wi = w[2 * k + 1]!;
+      const wi = sg * w[2 * k + 1]!;
       a[2 * k] = xr * wr - xi * wi;
       a[2 * k + 1] = xr * wi + xi * wr;
     }
     a.fill(0, 2 * n);
-    inner.transform(b, a);
+    inner.toOrder(a, 0, false);
     for (let k = 0; k < 2 * m; k += 2) {
-      const br = b[k]!;
-      const bi = b[k + 1]!;
+      const br = a[k]!;
+      const bi = a[k + 1]!;
       const kr = K[k]!;
-      const ki = K[k + 1]!;
-      b[k] = br * kr - bi * ki;
-      b[k + 1] = br * ki + bi * kr;
+      const ki = sg * K[k + 1]!;
+      a[k] = br * kr - bi * ki;
+      a[k + 1] = br * ki + bi * kr;
     }
-    inner.inverseTransform(a, b);
+    inner.fromOrder(a, 0, true);
     for (let k = 0; k < n; k++) {
       const yr = a[2 * k]!;
       const yi = a[2 * k + 1]!;
       const wr = w[2 * k]!;
-      const wi = w[2 * k + 1]!;
-      out[2 * k] = yr * wr - yi * wi;
-      out[2 * k + 1] = yr * wi + yi * wr;
+      const wi = sg * w[2 * k + 1]!;
+      out[oo + 2 * k] = yr * wr - yi * wi;
+      out[oo + 2 * k + 1] = yr * wi + yi * wr;
     }
   }
 }
@@ -156,7 +176,8 @@ export class ComplexFft {
 /**
  * A plan for the unnormalised DCT-II `X[k] = Σₙ x[n] cos(πk(2n+1)/(2N))` and its exact
  * inverse (a scaled DCT-III), computed two real sequences at a time through one N-point
- * complex FFT after Makhoul's even/odd reordering.
+ * complex FFT after Makhoul's even/odd reordering. The reordering copy writes straight
+ * into the FFT kernel's storage order, so no separate permutation pass is made.
  *
  * @see Makhoul, J. (1980), "A fast cosine transform in one and two dimensions", IEEE
  *   Transactions on Acoustics, Speech, and Signal Processing 28(1), 27–34.
@@ -165,20 +186,38 @@ export class FastDct {
   readonly n: number;
   private readonly fft: ComplexFft;
   private readonly tw: Float64Array; // cos, sin of πk/(2N)
+  private readonly twInv: Float64Array; // the same divided by N (the inverse FFT's 1/N)
+  /** Position (in doubles) in `z` of reordered element j: 2·order[j]. */
+  private readonly pos: Int32Array;
+  /** Sample index whose value goes to complex position i of `z` (reordering and storage order composed). */
+  private readonly src: Int32Array;
   private readonly z: Float64Array;
-  private readonly zf: Float64Array;
 
   constructor(n: number) {
     this.n = n;
     this.fft = new ComplexFft(n);
     const tw = new Float64Array(2 * n);
+    const twInv = new Float64Array(2 * n);
     for (let k = 0; k < n; k++) {
       tw[2 * k] = Math.cos((Math.PI * k) / (2 * n));
       tw[2 * k + 1] = Math.sin((Math.PI * k) / (2 * n));
+      twInv[2 * k] = tw[2 * k]! / n;
+      twInv[2 * k + 1] = tw[2 * k + 1]! / n;
     }
     this.tw = tw;
+    this.twInv = twInv;
+    const order = this.fft.order;
+    this.pos = new Int32Array(n);
+    for (let j = 0; j < n; j++) this.pos[j] = 2 * order[j]!;
+    // position i holds reordered element e = order[i] (the order is an involution), which
+    // is sample 2e for e < ⌈n/2⌉ and sample 2(n − 1 − e) + 1 otherwise
+    this.src = new Int32Array(n);
+    const ne = (n + 1) >> 1;
+    for (let i = 0; i < n; i++) {
+      const e = order[i]!;
+      this.src[i] = e < ne ? 2 * e : 2 * (n - 1 - e) + 1;
+    }
     this.z = new Float64Array(2 * n);
-    this.zf = new Float64Array(2 * n);
   }
 
   /**
@@ -190,32 +229,24 @@ export class FastDct {
     const n = this.n;
     if (n === 1) return;
     const z = this.z;
-    const zf = this.zf;
     const two = rb >= 0;
-    // Makhoul's reordering: v[j] = x[2j] (front), v[n−1−j] = x[2j+1] (back, reversed)
-    const ne = (n + 1) >> 1;
-    const no = n >> 1;
-    const s2 = 2 * stride;
+    // Makhoul's reordering: v[j] = x[2j] (front), v[n−1−j] = x[2j+1] (back, reversed),
+    // gathered straight into the transform's storage order
+    const src = this.src;
     if (two) {
-      for (let j = 0, s = 0; j < ne; j++, s += s2) {
-        z[2 * j] = data[ra + s]!;
-        z[2 * j + 1] = data[rb + s]!;
-      }
-      for (let j = 0, s = stride, d = 2 * (n - 1); j < no; j++, s += s2, d -= 2) {
+      for (let i = 0, d = 0; i < n; i++, d += 2) {
+        const s = src[i]! * stride;
         z[d] = data[ra + s]!;
         z[d + 1] = data[rb + s]!;
       }
     } else {
-      for (let j = 0, s = 0; j < ne; j++, s += s2) {
-        z[2 * j] = data[ra + s]!;
-        z[2 * j + 1] = 0;
-      }
-      for (let j = 0, s = stride, d = 2 * (n - 1); j < no; j++, s += s2, d -= 2) {
-        z[d] = data[ra + s]!;
+      for (let i = 0, d = 0; i < n; i++, d += 2) {
+        z[d] = data[ra + src[i]! * stride]!;
         z[d + 1] = 0;
       }
     }
-    this.fft.forward(zf, z);
+    this.fft.fromOrder(z, 0, false);
+    const zf = z;
     const tw = this.tw;
     // X[k] = Re(e^{-iπk/2N} V[k]); V_a, V_b separated from Z by Hermitian symmetry
     data[ra] = zf[0]!;
@@ -245,53 +276,156 @@ export class FastDct {
     }
   }
 
+  /**
+   * A diagonal solve in the DCT-II basis for two sequences in place (layout as in
+   * {@link FastDct.forwardPair}): transform, divide coefficient k of sequence a by
+   * `la + lam[k]` and of b by `lb + lam[k]` (a zero divisor gives a zero coefficient),
+   * and transform back. Equals forwardPair, the division and inversePair, with the
+   * coefficients never stored.
+   */
+  solvePair(data: Float64Array, ra: number, rb: number, stride: number, la: number, lb: number, lam: Float64Array): void {
+    const n = this.n;
+    if (n === 1 || rb < 0) {
+      this.forwardPair(data, ra, rb, stride);
+      for (let k = 0; k < n; k++) {
+        const da = la + lam[k]!;
+        data[ra + k * stride] = da !== 0 ? data[ra + k * stride]! / da : 0;
+        if (rb < 0) continue;
+        const db = lb + lam[k]!;
+        data[rb + k * stride] = db !== 0 ? data[rb + k * stride]! / db : 0;
+      }
+      this.inversePair(data, ra, rb, stride);
+      return;
+    }
+    const z = this.z;
+    const pos = this.pos;
+    const src = this.src;
+    const ne = (n + 1) >> 1;
+    const no = n >> 1;
+    const s2 = 2 * stride;
+    for (let i = 0, d = 0; i < n; i++, d += 2) {
+      const s = src[i]! * stride;
+      z[d] = data[ra + s]!;
+      z[d + 1] = data[rb + s]!;
+    }
+    this.fft.fromOrder(z, 0, false);
+    const tw = this.tw;
+    const ti = this.twInv;
+    // k = 0: X = Re Z / Im Z, V = X / n
+    {
+      const da = la + lam[0]!;
+      const db = lb + lam[0]!;
+      z[0] = da !== 0 ? z[0]! / (da * n) : 0;
+      z[1] = db !== 0 ? z[1]! / (db * n) : 0;
+    }
+    // coefficients k and n − k from Z[k], Z[n − k]; divided; then V[k], V[n − k] of the
+    // inverse written over Z[k], Z[n − k] (both read before either is written)
+    for (let k = 1; 2 * k <= n; k++) {
+      const m = n - k;
+      const Ar = z[2 * k]!;
+      const Ai = z[2 * k + 1]!;
+      const Br = z[2 * m]!;
+      const Bi = z[2 * m + 1]!;
+      const sr = Ar + Br;
+      const di = Ai - Bi;
+      const si = Ai + Bi;
+      const dr = Ar - Br;
+      const ckr = tw[2 * k]!;
+      const cki = tw[2 * k + 1]!;
+      const lk = lam[k]!;
+      const dak = la + lk;
+      const dbk = lb + lk;
+      const xak = dak !== 0 ? (0.5 * (ckr * sr + cki * di)) / dak : 0;
+      const xbk = dbk !== 0 ? (0.5 * (ckr * si - cki * dr)) / dbk : 0;
+      if (m === k) {
+        // X[n − k] = X[k] here; V[k] = e^{iπk/2N}(X[k] − i X[k]) / n
+        const er = ti[2 * k]!;
+        const ei = ti[2 * k + 1]!;
+        z[2 * k] = er * xak + ei * xak - (ei * xbk - er * xbk);
+        z[2 * k + 1] = ei * xak - er * xak + (er * xbk + ei * xbk);
+        continue;
+      }
+      const cmr = tw[2 * m]!;
+      const cmi = tw[2 * m + 1]!;
+      const lm = lam[m]!;
+      const dam = la + lm;
+      const dbm = lb + lm;
+      const xam = dam !== 0 ? (0.5 * (cmr * sr - cmi * di)) / dam : 0;
+      const xbm = dbm !== 0 ? (0.5 * (cmr * si + cmi * dr)) / dbm : 0;
+      const er = ti[2 * k]!;
+      const ei = ti[2 * k + 1]!;
+      z[2 * k] = er * xak + ei * xam - (ei * xbk - er * xbm);
+      z[2 * k + 1] = ei * xak - er * xam + (er * xbk + ei * xbm);
+      const fr = ti[2 * m]!;
+      const fi = ti[2 * m + 1]!;
+      z[2 * m] = fr * xam + fi * xak - (fi * xbm - fr * xbk);
+      z[2 * m + 1] = fi * xam - fr * xak + (fr * xbm + fi * xbk);
+    }
+    this.fft.toOrder(z, 0, true);
+    for (let j = 0, s = 0; j < ne; j++, s += s2) {
+      const d = pos[j]!;
+      data[ra + s] = z[d]!;
+      data[rb + s] = z[d + 1]!;
+    }
+    for (let j = 0, s = stride; j < no; j++, s += s2) {
+      const d = pos[n - 1 - j]!;
+      data[ra + s] = z[d]!;
+      data[rb + s] = z[d + 1]!;
+    }
+  }
+
   /** Exact inverse of {@link FastDct.forwardPair}, in place, same layout arguments. */
   inversePair(data: Float64Array, ra: number, rb: number, stride = 1): void {
     const n = this.n;
     if (n === 1) return;
     const z = this.z;
-    const zf = this.zf;
-    const tw = this.tw;
+    const tw = this.twInv;
     const two = rb >= 0;
-    // V[k] = e^{iπk/2N} (X[k] − i X[N−k]), X[N] = 0; Z = V_a + i V_b
-    zf[0] = data[ra]!;
-    zf[1] = two ? data[rb]! : 0;
-    for (let k = 1; k < n; k++) {
-      const er = tw[2 * k]!;
-      const ei = tw[2 * k + 1]!;
-      const ok = k * stride;
-      const om = (n - k) * stride;
-      const ak = data[ra + ok]!;
-      const am = data[ra + om]!;
-      const var_ = er * ak + ei * am;
-      const vai = ei * ak - er * am;
-      let vbr = 0;
-      let vbi = 0;
-      if (two) {
+    // V[k] = e^{iπk/2N} (X[k] − i X[N−k]) / N, X[N] = 0; Z = V_a + i V_b (the 1/N of
+    // the inverse transform is folded into the twiddles)
+    const s0 = 1 / n;
+    z[0] = data[ra]! * s0;
+    z[1] = two ? data[rb]! * s0 : 0;
+    if (two) {
+      for (let k = 1, ok = stride, om = (n - 1) * stride; k < n; k++, ok += stride, om -= stride) {
+        const er = tw[2 * k]!;
+        const ei = tw[2 * k + 1]!;
+        const ak = data[ra + ok]!;
+        const am = data[ra + om]!;
         const bk = data[rb + ok]!;
         const bm = data[rb + om]!;
-        vbr = er * bk + ei * bm;
-        vbi = ei * bk - er * bm;
+        z[2 * k] = er * ak + ei * am - (ei * bk - er * bm);
+        z[2 * k + 1] = ei * ak - er * am + (er * bk + ei * bm);
       }
-      zf[2 * k] = var_ - vbi;
-      zf[2 * k + 1] = vai + vbr;
+    } else {
+      for (let k = 1, ok = stride, om = (n - 1) * stride; k < n; k++, ok += stride, om -= stride) {
+        const er = tw[2 * k]!;
+        const ei = tw[2 * k + 1]!;
+        const ak = data[ra + ok]!;
+        const am = data[ra + om]!;
+        z[2 * k] = er * ak + ei * am;
+        z[2 * k + 1] = ei * ak - er * am;
+      }
     }
-    this.fft.inverse(z, zf);
+    this.fft.toOrder(z, 0, true);
+    const pos = this.pos;
     const ne = (n + 1) >> 1;
     const no = n >> 1;
     const s2 = 2 * stride;
     if (two) {
       for (let j = 0, s = 0; j < ne; j++, s += s2) {
-        data[ra + s] = z[2 * j]!;
-        data[rb + s] = z[2 * j + 1]!;
+        const d = pos[j]!;
+        data[ra + s] = z[d]!;
+        data[rb + s] = z[d + 1]!;
       }
-      for (let j = 0, s = stride, d = 2 * (n - 1); j < no; j++, s += s2, d -= 2) {
+      for (let j = 0, s = stride; j < no; j++, s += s2) {
+        const d = pos[n - 1 - j]!;
         data[ra + s] = z[d]!;
         data[rb + s] = z[d + 1]!;
       }
     } else {
-      for (let j = 0, s = 0; j < ne; j++, s += s2) data[ra + s] = z[2 * j]!;
-      for (let j = 0, s = stride, d = 2 * (n - 1); j < no; j++, s += s2, d -= 2) data[ra + s] = z[d]!;
+      for (let j = 0, s = 0; j < ne; j++, s += s2) data[ra + s] = z[pos[j]!]!;
+      for (let j = 0, s = stride; j < no; j++, s += s2) data[ra + s] = z[pos[n - 1 - j]!]!;
     }
   }
 }

@@ -63,12 +63,14 @@ class FcSolver implements PreparedFrankotChellappa {
   /** ω² including Nyquist, for the denominator. */
   private readonly wx2: Float64Array;
   private readonly wy2: Float64Array;
+  /** Positions (in doubles) of element i in the row / column transforms' storage order. */
+  private readonly posW: Int32Array;
+  private readonly posH: Int32Array;
   private readonly spec: Float64Array;
-  private readonly rowViews: Float64Array[];
   private readonly tA: Float64Array;
-  private readonly tB: Float64Array;
-  private readonly blkIn: Float64Array[];
-  private readonly blkOut: Float64Array[];
+  /** Column tile: COL_BLOCK columns and their partners, 2·height doubles each. */
+  private readonly tile: Float64Array;
+  private readonly tileCols: Int32Array;
 
   constructor(w: number, h: number, dx: number, dy: number) {
     this.width = w;
@@ -85,20 +87,12 @@ class FcSolver implements PreparedFrankotChellappa {
     this.ay = wy.slice();
     if (w % 2 === 0) this.ax[w / 2] = 0;
     if (h % 2 === 0) this.ay[h / 2] = 0;
+    this.posW = this.fftW.order.map((v) => 2 * v);
+    this.posH = this.fftH.order.map((v) => 2 * v);
     this.spec = new Float64Array(2 * w * h);
-    this.rowViews = [];
-    for (let j = 0; j < h; j++) this.rowViews.push(this.spec.subarray(2 * j * w, 2 * (j + 1) * w));
-    const m = Math.max(w, h);
-    this.tA = new Float64Array(2 * m);
-    this.tB = new Float64Array(2 * m);
-    const bi = new Float64Array(2 * h * COL_BLOCK);
-    const bo = new Float64Array(2 * h * COL_BLOCK);
-    this.blkIn = [];
-    this.blkOut = [];
-    for (let c = 0; c < COL_BLOCK; c++) {
-      this.blkIn.push(bi.subarray(2 * h * c, 2 * h * (c + 1)));
-      this.blkOut.push(bo.subarray(2 * h * c, 2 * h * (c + 1)));
-    }
+    this.tA = new Float64Array(2 * w);
+    this.tile = new Float64Array(2 * COL_BLOCK * slotStride(h));
+    this.tileCols = new Int32Array(2 * COL_BLOCK);
   }
 
   solve(p: Grid, q: Grid, options?: FrankotChellappaFrameOptions): IntegrationResult {
@@ -120,17 +114,17 @@ class FcSolver implements PreparedFrankotChellappa {
     const pd = p.data;
     const qd = q.data;
     const S = this.spec;
-    const half = w >> 1;
     // 1. rows of Z = FFT(p + i q): both real fields in one complex transform
-    forwardRows(pd, qd, w, h, this.fftW, this.rowViews, this.tA);
-    // 2. columns (strided gather / scatter)
-    columns(S, w, h, w, this.fftH, this.blkIn, this.blkOut, false);
-    // 3. project onto the integrable fields (columns 0 … ⌊w/2⌋; H is Hermitian)
-    project(S, w, h, this.ax, this.ay, this.wx2, this.wy2);
-    // 4. inverse along y for columns 0 … ⌊w/2⌋
-    columns(S, w, h, half + 1, this.fftH, this.blkIn, this.blkOut, true);
-    // 5. inverse along x, two real rows at a time
-    inverseRows(S, w, h, this.fftW, this.tA, this.tB, out);
+    forwardRows(pd, qd, w, h, this.fftW, this.posW, S);
+    // 2. per tile of columns 0 … ⌊w/2⌋ and their partners: FFT along y, project onto
+    //    the integrable fields, inverse along y of the tile's own columns (H is
+    //    Hermitian, so the other half is never formed)
+    for (let a = 0; a <= w >> 1; a += COL_BLOCK) {
+      const b = Math.min((w >> 1) + 1, a + COL_BLOCK);
+      columnTile(S, w, h, a, b, this.fftH, this.posH, this.tile, this.tileCols, this.ax, this.ay, this.wx2, this.wy2);
+    }
+    // 3. inverse along x, two real rows at a time
+    inverseRows(S, w, h, this.fftW, this.posW, this.tA, out);
     const height = createGrid(p, out);
     return {
       height,
@@ -145,129 +139,136 @@ class FcSolver implements PreparedFrankotChellappa {
   }
 }
 
-function forwardRows(
-  pd: Float64Array,
-  qd: Float64Array,
-  w: number,
-  h: number,
-  fft: ComplexFft,
-  views: Float64Array[],
-  tA: Float64Array,
-): void {
+/** Rows of S = FFT_x(p + i q), each written in the transform's storage order and transformed in place. */
+function forwardRows(pd: Float64Array, qd: Float64Array, w: number, h: number, fft: ComplexFft, pos: Int32Array, S: Float64Array): void {
   for (let j = 0; j < h; j++) {
     const row = j * w;
-    for (let i = 0; i < w; i++) {
-      tA[2 * i] = pd[row + i]!;
-      tA[2 * i + 1] = qd[row + i]!;
+    const base = 2 * row;
+    // the storage order is an involution: position i holds element order[i]
+    for (let i = 0, d = base; i < w; i++, d += 2) {
+      const e = row + (pos[i]! >> 1);
+      S[d] = pd[e]!;
+      S[d + 1] = qd[e]!;
     }
-    fft.forward(views[j]!, tA);
+    fft.fromOrder(S, base, false);
   }
 }
 
-/** Columns per block of the column passes (a tile of the implicit transpose). */
-const COL_BLOCK = 8;
+/** Columns per tile of the column pass (each tile also holds the partner columns). */
+const COL_BLOCK = 16;
 
 /**
- * FFT along y of columns 0 … count−1, in place. Columns are gathered a block at a time
- * into contiguous sequences (a tiled transpose), which keeps the strided reads within a
- * few pages at a time.
+ * Doubles per column slot of the tile: 2·height plus one cache line, so that slots a
+ * power of two apart do not fall in the same cache sets.
  */
-function columns(
+function slotStride(h: number): number {
+  return 2 * h + 8;
+}
+
+/**
+ * Columns a … b−1 (within 0 … ⌊w/2⌋) of S: gather them and their partner columns
+ * (w − kx) mod w into the tile (a tiled transpose, in the transform's storage order),
+ * FFT along y, form
+ * P = (Z(k) + conj Z(−k))/2, Q = (Z(k) − conj Z(−k))/(2i),
+ * H = −i (ωx P + ωy Q)/(ωx² + ωy²) / (w·h) (the inverse's scale folded in),
+ * inverse-FFT the tile's own columns and scatter them back. A column that is its own
+ * partner (0 and w/2) is processed pairwise in ky so nothing is read after it is
+ * overwritten.
+ */
+function columnTile(
   S: Float64Array,
   w: number,
   h: number,
-  count: number,
+  a: number,
+  b: number,
   fft: ComplexFft,
-  blkIn: Float64Array[],
-  blkOut: Float64Array[],
-  inverse: boolean,
-): void {
-  const w2 = 2 * w;
-  for (let i0 = 0; i0 < count; i0 += COL_BLOCK) {
-    const nb = Math.min(COL_BLOCK, count - i0);
-    for (let j = 0; j < h; j++) {
-      let s = j * w2 + 2 * i0;
-      for (let c = 0; c < nb; c++, s += 2) {
-        const b = blkIn[c]!;
-        b[2 * j] = S[s]!;
-        b[2 * j + 1] = S[s + 1]!;
-      }
-    }
-    for (let c = 0; c < nb; c++) {
-      if (inverse) fft.inverse(blkOut[c]!, blkIn[c]!);
-      else fft.forward(blkOut[c]!, blkIn[c]!);
-    }
-    for (let j = 0; j < h; j++) {
-      let s = j * w2 + 2 * i0;
-      for (let c = 0; c < nb; c++, s += 2) {
-        const b = blkOut[c]!;
-        S[s] = b[2 * j]!;
-        S[s + 1] = b[2 * j + 1]!;
-      }
-    }
-  }
-}
-
-/**
- * P = (Z(k) + conj Z(−k))/2, Q = (Z(k) − conj Z(−k))/(2i), H = −i (ωx P + ωy Q)/(ωx² + ωy²),
- * for columns 0 … ⌊w/2⌋, in place; a column that is its own partner (0 and w/2) is
- * processed pairwise so nothing is read after it is overwritten.
- */
-function project(
-  S: Float64Array,
-  w: number,
-  h: number,
+  pos: Int32Array,
+  tile: Float64Array,
+  cols: Int32Array,
   ax: Float64Array,
   ay: Float64Array,
   wx2: Float64Array,
   wy2: Float64Array,
 ): void {
-  const half = w >> 1;
-  for (let kx = 0; kx <= half; kx++) {
+  const nb = b - a;
+  const h2 = slotStride(h);
+  // slots 0 … nb−1: columns a … b−1; slot nb + c: the partner of column a + c unless
+  // the partner is itself in the tile (then it is not gathered twice)
+  let ns = nb;
+  for (let c = 0; c < nb; c++) cols[c] = a + c;
+  for (let c = 0; c < nb; c++) {
+    const pc = (w - a - c) % w;
+    if (pc >= a && pc < b) continue;
+    cols[ns++] = pc;
+  }
+  const w2 = 2 * w;
+  for (let j = 0; j < h; j++) {
+    const row = j * w2;
+    const d = pos[j]!;
+    for (let c = 0, t = d; c < ns; c++, t += h2) {
+      const s = row + 2 * cols[c]!;
+      tile[t] = S[s]!;
+      tile[t + 1] = S[s + 1]!;
+    }
+  }
+  for (let c = 0; c < ns; c++) fft.fromOrder(tile, c * h2, false);
+  const scale = 1 / (w * h);
+  let next = nb;
+  for (let c = 0; c < nb; c++) {
+    const kx = a + c;
     const pc = (w - kx) % w;
     const self = pc === kx;
-    const a = ax[kx]!;
+    let pslot: number;
+    if (pc >= a && pc < b) pslot = pc - a;
+    else pslot = next++;
+    const zo = c * h2;
+    const mo = pslot * h2;
+    const ak = ax[kx]!;
     const ax2 = wx2[kx]!;
     for (let ky = 0; ky < h; ky++) {
       const pr = ky === 0 ? 0 : h - ky;
       if (self && pr < ky) continue;
-      const id = 2 * (ky * w + kx);
-      const ip = 2 * (pr * w + pc);
-      const Zr = S[id]!;
-      const Zi = S[id + 1]!;
-      const Mr = S[ip]!;
-      const Mi = S[ip + 1]!;
-      const b = ay[ky]!;
+      const id = zo + 2 * ky;
+      const ip = mo + 2 * pr;
+      const Zr = tile[id]!;
+      const Zi = tile[id + 1]!;
+      const Mr = tile[ip]!;
+      const Mi = tile[ip + 1]!;
+      const bk = ay[ky]!;
       const den = ax2 + wy2[ky]!;
       let Hr = 0;
       let Hi = 0;
       if (den > 0) {
         // S = a P + b Q with P = ((Zr+Mr)/2, (Zi−Mi)/2), Q = ((Zi+Mi)/2, −(Zr−Mr)/2)
-        const Sr = 0.5 * (a * (Zr + Mr) + b * (Zi + Mi));
-        const Si = 0.5 * (a * (Zi - Mi) - b * (Zr - Mr));
-        Hr = Si / den;
-        Hi = -Sr / den;
+        const f = (0.5 * scale) / den;
+        Hr = f * (ak * (Zi - Mi) - bk * (Zr - Mr));
+        Hi = -f * (ak * (Zr + Mr) + bk * (Zi + Mi));
       }
-      S[id] = Hr;
-      S[id + 1] = Hi;
+      tile[id] = Hr;
+      tile[id + 1] = Hi;
       if (self && pr !== ky) {
-        S[ip] = Hr;
-        S[ip + 1] = -Hi;
+        tile[ip] = Hr;
+        tile[ip + 1] = -Hi;
       }
+    }
+  }
+  for (let c = 0; c < nb; c++) fft.toOrder(tile, c * h2, true);
+  for (let j = 0; j < h; j++) {
+    const row = j * w2 + 2 * a;
+    const d = pos[j]!;
+    for (let c = 0, t = d; c < nb; c++, t += h2) {
+      const s = row + 2 * c;
+      S[s] = tile[t]!;
+      S[s + 1] = tile[t + 1]!;
     }
   }
 }
 
-/** Inverse along x of two Hermitian rows at a time: IFFT(G_a + i G_b) = g_a + i g_b. */
-function inverseRows(
-  S: Float64Array,
-  w: number,
-  h: number,
-  fft: ComplexFft,
-  tA: Float64Array,
-  tB: Float64Array,
-  out: Float64Array,
-): void {
+/**
+ * Inverse along x of two Hermitian rows at a time: IFFT(G_a + i G_b) = g_a + i g_b
+ * (unscaled: the 1/(w·h) is already in the spectrum).
+ */
+function inverseRows(S: Float64Array, w: number, h: number, fft: ComplexFft, pos: Int32Array, tA: Float64Array, out: Float64Array): void {
   const half = w >> 1;
   const w2 = 2 * w;
   for (let j = 0; j < h; j += 2) {
@@ -279,19 +280,21 @@ function inverseRows(
       const ai = S[ra + 2 * kx + 1]!;
       const br = two ? S[rb + 2 * kx]! : 0;
       const bi = two ? S[rb + 2 * kx + 1]! : 0;
-      tA[2 * kx] = ar - bi;
-      tA[2 * kx + 1] = ai + br;
+      const d = pos[kx]!;
+      tA[d] = ar - bi;
+      tA[d + 1] = ai + br;
       const m = w - kx;
       if (kx > 0 && m > half) {
         // G(−kx) = conj G(kx): conj(a) + i conj(b)
-        tA[2 * m] = ar + bi;
-        tA[2 * m + 1] = br - ai;
+        const e = pos[m]!;
+        tA[e] = ar + bi;
+        tA[e + 1] = br - ai;
       }
     }
-    fft.inverse(tB, tA);
+    fft.fromOrder(tA, 0, true);
     const row = j * w;
-    for (let i = 0; i < w; i++) out[row + i] = tB[2 * i]!;
-    if (two) for (let i = 0; i < w; i++) out[row + w + i] = tB[2 * i + 1]!;
+    for (let i = 0; i < w; i++) out[row + i] = tA[2 * i]!;
+    if (two) for (let i = 0; i < w; i++) out[row + w + i] = tA[2 * i + 1]!;
   }
 }
 

@@ -1,0 +1,259 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import FFT from 'fft.js';
+import { Pow2Fft } from '../../src/integrate/fft-kernel.js';
+import { ComplexFft, FastDct } from '../../src/integrate/fft.js';
+
+// References: fft.js (a general-purpose FFT library from npm, v4) for powers of two, and
+// the analytic DFT of an impulse and of a complex exponential from the definition
+// X[k] = Σ x[j] e^{−2πi jk/n} (e.g. Oppenheim & Schafer, Discrete-Time Signal
+// Processing): an impulse at j0 has X[k] = e^{−2πi j0 k/n}; e^{2πi f j/n} has
+// X[k] = n δ[k − f].
+
+const pow2Sizes = Array.from({ length: 15 }, (_, b) => 1 << b); // 1 … 2^14
+
+/** Deterministic test signal (no randomness needed: any sequence will do). */
+function signal(n: number): Float64Array {
+  return new Float64Array(2 * n).map((_, i) => Math.sin(0.37 * i + 0.1) + 0.5 * Math.cos(1.91 * i * i) - 0.2);
+}
+
+function maxAbs(a: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]!));
+  return m;
+}
+
+/** max |a − b| / max |b| over the first `len` entries. */
+function relDiff(a: Float64Array, b: Float64Array, len = b.length): number {
+  let e = 0;
+  let s = 0;
+  for (let i = 0; i < len; i++) {
+    e = Math.max(e, Math.abs(a[i]! - b[i]!));
+    s = Math.max(s, Math.abs(b[i]!));
+  }
+  return s > 0 ? e / s : e;
+}
+
+/** Store x (natural order) at the kernel's bit-reversed positions. */
+function toRev(x: Float64Array, rev: Int32Array): Float64Array {
+  const y = new Float64Array(x.length);
+  for (let j = 0; j < rev.length; j++) {
+    y[2 * rev[j]!] = x[2 * j]!;
+    y[2 * rev[j]! + 1] = x[2 * j + 1]!;
+  }
+  return y;
+}
+
+function fromRev(y: Float64Array, rev: Int32Array): Float64Array {
+  const x = new Float64Array(y.length);
+  for (let k = 0; k < rev.length; k++) {
+    x[2 * k] = y[2 * rev[k]!]!;
+    x[2 * k + 1] = y[2 * rev[k]! + 1]!;
+  }
+  return x;
+}
+
+describe('Pow2Fft against fft.js (general-purpose reference library)', () => {
+  it.each(pow2Sizes.filter((n) => n >= 2))('forward and inverse agree with fft.js, n = %i', (n) => {
+    const x = signal(n);
+    const ref = new FFT(n);
+    const want = new Float64Array(2 * n);
+    ref.transform(want, x);
+    const k = new Pow2Fft(n);
+    const got = new Float64Array(2 * n);
+    k.transform(got, x, false);
+    expect(relDiff(got, want)).toBeLessThan(1e-12);
+    // in-place forms: decimation in time from bit-reversed order, in frequency to it
+    const dit = toRev(x, k.rev);
+    k.fromOrder(dit, 0, false);
+    expect(relDiff(dit, want)).toBeLessThan(1e-12);
+    const dif = x.slice();
+    k.toOrder(dif, 0, false);
+    expect(relDiff(fromRev(dif, k.rev), want)).toBeLessThan(1e-12);
+    // inverse: fft.js scales by 1/n, the kernel does not
+    ref.inverseTransform(want, x);
+    for (let i = 0; i < 2 * n; i++) want[i] = want[i]! * n;
+    k.transform(got, x, true);
+    expect(relDiff(got, want)).toBeLessThan(1e-12);
+    const dit2 = toRev(x, k.rev);
+    k.fromOrder(dit2, 0, true);
+    expect(relDiff(dit2, want)).toBeLessThan(1e-12);
+    const dif2 = x.slice();
+    k.toOrder(dif2, 0, true);
+    expect(relDiff(fromRev(dif2, k.rev), want)).toBeLessThan(1e-12);
+  });
+
+  it('works at an offset inside a larger array and leaves the rest alone', () => {
+    const n = 64;
+    const x = signal(n);
+    const want = new Float64Array(2 * n);
+    new FFT(n).transform(want, x);
+    const k = new Pow2Fft(n);
+    const big = new Float64Array(2 * n + 20).fill(7);
+    big.set(toRev(x, k.rev), 10);
+    k.fromOrder(big, 10, false);
+    expect(relDiff(big.subarray(10, 10 + 2 * n), want)).toBeLessThan(1e-12);
+    for (let i = 0; i < 10; i++) expect(big[i]).toBe(7);
+    for (let i = 10 + 2 * n; i < big.length; i++) expect(big[i]).toBe(7);
+  });
+
+  it('refuses a length that is not a power of two', () => {
+    expect(() => new Pow2Fft(12)).toThrow();
+  });
+});
+
+describe('Pow2Fft against the analytic DFT (definition)', () => {
+  it.each(pow2Sizes)('impulses and complex exponentials, forward and inverse, n = %i', (n) => {
+    const k = new Pow2Fft(n);
+    const out = new Float64Array(2 * n);
+    const picks = [0, 1, n >> 1, n - 1, Math.floor(n / 3)].filter((v, i, a) => v < n && a.indexOf(v) === i);
+    for (const j0 of picks) {
+      // impulse at j0: X[k] = e^{∓2πi j0 k/n}
+      const x = new Float64Array(2 * n);
+      x[2 * j0] = 1;
+      for (const inverse of [false, true]) {
+        k.transform(out, x, inverse);
+        const sg = inverse ? 1 : -1;
+        let err = 0;
+        for (let f = 0; f < n; f++) {
+          const a = (2 * Math.PI * ((j0 * f) % n)) / n;
+          err = Math.max(err, Math.abs(out[2 * f]! - Math.cos(a)), Math.abs(out[2 * f + 1]! - sg * Math.sin(a)));
+        }
+        expect(err).toBeLessThan(1e-12);
+      }
+      // e^{±2πi j0 j/n}: X[k] = n δ[k − j0] for the matching sign
+      for (const inverse of [false, true]) {
+        const sg = inverse ? -1 : 1;
+        for (let j = 0; j < n; j++) {
+          const a = (2 * Math.PI * ((j0 * j) % n)) / n;
+          x[2 * j] = Math.cos(a);
+          x[2 * j + 1] = sg * Math.sin(a);
+        }
+        k.transform(out, x, inverse);
+        let err = 0;
+        for (let f = 0; f < n; f++) {
+          err = Math.max(err, Math.abs(out[2 * f]! - (f === j0 ? n : 0)), Math.abs(out[2 * f + 1]!));
+        }
+        expect(err / n).toBeLessThan(1e-12);
+      }
+    }
+  });
+});
+
+describe('ComplexFft on the kernel, every length', () => {
+  // Bluestein lengths checked against the definition summed directly
+  function naiveDft(x: Float64Array, n: number, sg: number): Float64Array {
+    const X = new Float64Array(2 * n);
+    for (let f = 0; f < n; f++) {
+      let re = 0;
+      let im = 0;
+      for (let j = 0; j < n; j++) {
+        const a = (sg * 2 * Math.PI * ((j * f) % n)) / n;
+        re += x[2 * j]! * Math.cos(a) - x[2 * j + 1]! * Math.sin(a);
+        im += x[2 * j]! * Math.sin(a) + x[2 * j + 1]! * Math.cos(a);
+      }
+      X[2 * f] = re;
+      X[2 * f + 1] = im;
+    }
+    return X;
+  }
+
+  it.each([3, 5, 6, 7, 12, 100, 127, 243, 1000])('in-place forms match the definition, n = %i', (n) => {
+    const f = new ComplexFft(n);
+    const x = signal(n);
+    for (const inverse of [false, true]) {
+      const want = naiveDft(x, n, inverse ? 1 : -1);
+      const a = toRev(x, f.order);
+      f.fromOrder(a, 0, inverse);
+      expect(relDiff(a, want)).toBeLessThan(1e-12);
+      const b = x.slice();
+      f.toOrder(b, 0, inverse);
+      expect(relDiff(fromRev(b, f.order), want)).toBeLessThan(1e-12);
+    }
+    const X = new Float64Array(2 * n);
+    f.forward(X, x);
+    expect(relDiff(X, naiveDft(x, n, -1))).toBeLessThan(1e-12);
+  });
+
+  it('round trips forward → inverse for random data and lengths 1 … 300 (fast-check, seed 42)', () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 300 }),
+        fc.array(fc.double({ min: -1e3, max: 1e3, noNaN: true }), { minLength: 600, maxLength: 600 }),
+        (n, vals) => {
+          const x = Float64Array.from(vals.slice(0, 2 * n));
+          const f = new ComplexFft(n);
+          const X = new Float64Array(2 * n);
+          const y = new Float64Array(2 * n);
+          f.forward(X, x);
+          f.inverse(y, X);
+          const scale = Math.max(maxAbs(x), 1e-300);
+          for (let i = 0; i < 2 * n; i++) if (Math.abs(y[i]! - x[i]!) > 1e-12 * scale) return false;
+          return true;
+        },
+      ),
+      { seed: 42, numRuns: 200 },
+    );
+  });
+
+  it('round trips through the in-place forms, powers of two 2^0 … 2^12 (fast-check, seed 42)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 12 }), fc.integer({ min: 1, max: 1e6 }), (b, s) => {
+        const n = 1 << b;
+        const k = new Pow2Fft(n);
+        const x = new Float64Array(2 * n).map((_, i) => Math.sin(s * 1e-3 * (i + 1)) * (1 + (i % 5)));
+        // DIF forward leaves bit-reversed order, which DIT inverse takes: no reordering
+        const y = x.slice();
+        k.toOrder(y, 0, false);
+        k.fromOrder(y, 0, true);
+        const scale = maxAbs(x);
+        for (let i = 0; i < 2 * n; i++) if (Math.abs(y[i]! / n - x[i]!) > 1e-12 * scale) return false;
+        return true;
+      }),
+      { seed: 42, numRuns: 200 },
+    );
+  });
+});
+
+describe('FastDct.solvePair (diagonal solve in the DCT-II basis)', () => {
+  // Reference: the DCT-II definition (Makhoul 1980) summed directly, divided, and inverted
+  // by the definition's exact inverse X ↦ x[j] = (X[0] + 2 Σ_{k≥1} X[k] cos(πk(2j+1)/2N)) / N.
+  function dct2(x: Float64Array): Float64Array {
+    const n = x.length;
+    return Float64Array.from({ length: n }, (_, k) => {
+      let s = 0;
+      for (let j = 0; j < n; j++) s += x[j]! * Math.cos((Math.PI * k * (2 * j + 1)) / (2 * n));
+      return s;
+    });
+  }
+  function idct2(X: Float64Array): Float64Array {
+    const n = X.length;
+    return Float64Array.from({ length: n }, (_, j) => {
+      let s = X[0]!;
+      for (let k = 1; k < n; k++) s += 2 * X[k]! * Math.cos((Math.PI * k * (2 * j + 1)) / (2 * n));
+      return s / n;
+    });
+  }
+
+  it.each([1, 2, 3, 8, 12, 17, 64])('matches transform, divide, inverse by the definition, n = %i', (n) => {
+    const lam = Float64Array.from({ length: n }, (_, k) => 2 - 2 * Math.cos((Math.PI * k) / n));
+    const data = Float64Array.from({ length: 2 * n }, (_, i) => Math.cos(0.9 * i) + (i % 3));
+    const d = new FastDct(n);
+    const la = 0; // the a sequence has a zero divisor at k = 0
+    const lb = 0.7;
+    const expectFor = (x: Float64Array, l: number) => {
+      const X = dct2(x);
+      for (let k = 0; k < n; k++) X[k] = l + lam[k]! !== 0 ? X[k]! / (l + lam[k]!) : 0;
+      return idct2(X);
+    };
+    const wa = expectFor(data.subarray(0, n), la);
+    const wb = expectFor(data.subarray(n), lb);
+    const work = data.slice();
+    d.solvePair(work, 0, n, 1, la, lb, lam);
+    expect(relDiff(work.subarray(0, n), wa)).toBeLessThan(1e-12);
+    expect(relDiff(work.subarray(n), wb)).toBeLessThan(1e-12);
+    const one = data.slice(0, n);
+    d.solvePair(one, 0, -1, 1, lb, 0, lam);
+    expect(relDiff(one, expectFor(data.subarray(0, n), lb))).toBeLessThan(1e-12);
+  });
+});
