@@ -77,11 +77,15 @@ class DctSolver implements PreparedDctPoisson {
       typeError(fn, 'p', `dx ${s.p.dx}, dy ${s.p.dy}`, `the prepared spacing dx ${this.dx}, dy ${this.dy}`);
     }
     const out = outBuffer(fn, o.out, this.width * this.height);
-    return this.run(s.p, s.q, out);
+    return this.#run(s.p, s.q, out);
   }
 
-  /** Unchecked solve. */
-  run(p: Grid, q: Grid, out: Float64Array): IntegrationResult {
+  /** Unchecked solve, for the checked entry points of this module only. */
+  static unchecked(solver: DctSolver, p: Grid, q: Grid, out: Float64Array): IntegrationResult {
+    return solver.#run(p, q, out);
+  }
+
+  #run(p: Grid, q: Grid, out: Float64Array): IntegrationResult {
     const w = this.width;
     const h = this.height;
     const pd = p.data;
@@ -249,6 +253,7 @@ function columnSolve(
  */
 export function prepareDctPoisson(spec: GridSpec): PreparedDctPoisson {
   const fn = 'prepareDctPoisson';
+  if (spec === undefined) typeError(fn, 'spec', spec, 'a grid spec {width, height, dx?, dy?, x0?, y0?}');
   checkOptions(fn, spec, 'spec');
   const w = checkInteger(fn, 'spec.width', spec.width, 1, LIMITS.maxSide);
   const h = checkInteger(fn, 'spec.height', spec.height, 1, LIMITS.maxSide);
@@ -302,5 +307,5 @@ export function integrateDctPoisson(p: Grid, q: Grid, options?: DctPoissonOption
   const o = checkOptions(fn, options);
   const s = checkSlopes(fn, p, q, undefined);
   const out = outBuffer(fn, o.out, s.p.width * s.p.height);
-  return new DctSolver(s.p.width, s.p.height, s.p.dx, s.p.dy).run(s.p, s.q, out);
+  return DctSolver.unchecked(new DctSolver(s.p.width, s.p.height, s.p.dx, s.p.dy), s.p, s.q, out);
 }

@@ -105,10 +105,15 @@ class FcSolver implements PreparedFrankotChellappa {
     if (s.p.dx !== this.dx || s.p.dy !== this.dy) {
       typeError(fn, 'p', `dx ${s.p.dx}, dy ${s.p.dy}`, `the prepared spacing dx ${this.dx}, dy ${this.dy}`);
     }
-    return this.run(s.p, s.q, outBuffer(fn, o.out, this.width * this.height));
+    return this.#run(s.p, s.q, outBuffer(fn, o.out, this.width * this.height));
   }
 
-  run(p: Grid, q: Grid, out: Float64Array): IntegrationResult {
+  /** Unchecked solve, for the checked entry points of this module only. */
+  static unchecked(solver: FcSolver, p: Grid, q: Grid, out: Float64Array): IntegrationResult {
+    return solver.#run(p, q, out);
+  }
+
+  #run(p: Grid, q: Grid, out: Float64Array): IntegrationResult {
     const w = this.width;
     const h = this.height;
     const pd = p.data;
@@ -314,6 +319,7 @@ function inverseRows(S: Float64Array, w: number, h: number, fft: ComplexFft, pos
  */
 export function prepareFrankotChellappa(spec: GridSpec): PreparedFrankotChellappa {
   const fn = 'prepareFrankotChellappa';
+  if (spec === undefined) typeError(fn, 'spec', spec, 'a grid spec {width, height, dx?, dy?, x0?, y0?}');
   checkOptions(fn, spec, 'spec');
   const w = checkInteger(fn, 'spec.width', spec.width, 1, LIMITS.maxSide);
   const h = checkInteger(fn, 'spec.height', spec.height, 1, LIMITS.maxSide);
@@ -365,5 +371,5 @@ export function integrateFrankotChellappa(p: Grid, q: Grid, options?: FrankotChe
   const s = checkSlopes(fn, p, q, undefined);
   checkAllocation(fn, 'p.width × p.height × 2', 2 * s.p.width * s.p.height);
   const out = outBuffer(fn, o.out, s.p.width * s.p.height);
-  return new FcSolver(s.p.width, s.p.height, s.p.dx, s.p.dy).run(s.p, s.q, out);
+  return FcSolver.unchecked(new FcSolver(s.p.width, s.p.height, s.p.dx, s.p.dy), s.p, s.q, out);
 }
