@@ -25,7 +25,7 @@ function centroidCase(): BenchCase {
   return {
     name: 'spots.centroid',
     size: 2048,
-    quickSize: 256,
+    quickSize: 1024,
     prepare(n: number) {
       // N × N image, 64 × 64 Gaussian spots (σ 2 px, peak 1000) at jittered positions on
       // a background of 20, Gaussian noise σ 2 — the peers recipe (its generator differs).
