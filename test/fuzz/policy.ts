@@ -43,27 +43,10 @@ const CHECK_HELPERS = /^(check[A-Z]|rangeError$|typeError$|describeValue$|isMeni
  * skips these exports and the report lists the failing case. Key: `area/name`.
  */
 export const OPEN_DEFECTS: Readonly<Record<string, string>> = {
-  // a number as the path is taken by node:fs as a file descriptor: 0 reads stdin (hangs), -0 aborts the process
-  'node/loadRunConfig': 'a numeric path is read as a file descriptor',
-  'node/readConfigFile': 'a numeric path is read as a file descriptor',
-  'node/resolveRunConfig': 'TypeError on junk (a run config part as a number path is read as a file descriptor)',
-  'node/designInputFromJson': 'TypeError on undefined; NaN/Infinity pass through into the result',
-  'node/sensorFromJson': 'TypeError on undefined and partial objects',
-  'node/viewFromJson': 'TypeError on undefined',
-  'node/poseFromJson': "TypeError (`'eye' in x`) on non-objects",
-  'node/lightFromJson': 'TypeError on junk `source`',
-  'node/parseConfigText': 'TypeError when text is not a string',
-  'node/formatConfigIssue': 'TypeError on undefined',
-  'node/ConfigValidationError': 'TypeError on junk issues',
-  'node/UsageError': 'TypeError on a null-prototype message',
-  'integrate/prepareDctPoisson': 'TypeError on undefined spec',
-  'integrate/prepareFrankotChellappa': 'TypeError on undefined spec',
 };
 
 /** Methods of library objects with open defects (areas still being written): `Kind.method`. */
 export const OPEN_METHOD_DEFECTS: Readonly<Record<string, string>> = {
-  'DctSolver.run': 'public method of the prepared solver without argument checks (TypeError on junk)',
-  'FcSolver.run': 'public method of the prepared solver without argument checks (TypeError on junk)',
 };
 
 /** Methods that are per-sample kernels (fed numbers only, NaN in gives NaN out). */

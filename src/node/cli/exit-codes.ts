@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { typeError } from '../../core/index.js';
 
 /**
  * Exit codes of the `meniscus` command:
@@ -37,7 +38,15 @@ export class UsageError extends Error {
   override readonly name = 'UsageError';
   /** The subcommand whose usage applies (`undefined` for the top level). */
   readonly command: string | undefined;
+  /**
+   * @param message - What is wrong with the command line.
+   * @param command - The subcommand whose usage applies.
+   * @throws {@link core!MeniscusTypeError} for a message that is not a string or a
+   *   command that is neither a string nor `undefined`.
+   */
   constructor(message: string, command?: string) {
+    if (typeof message !== 'string') typeError('UsageError', 'message', message, 'a string');
+    if (command !== undefined && typeof command !== 'string') typeError('UsageError', 'command', command, 'a string or undefined');
     super(message);
     this.command = command;
   }

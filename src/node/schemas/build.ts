@@ -14,14 +14,50 @@ import { createCollimatedLight, createPointLight, createSunLight } from '../../s
 import type { GuideLight } from '../../sun/index.js';
 import type { CorrectionJson, RunConfigJson } from './run.js';
 import type { CameraJson, LightJson, ModelCameraJson, PoseJson, SensorDesignJson, SensorJson } from './types.js';
+import { rangeError, typeError } from '../../core/index.js';
+import { checkPathArg } from './paths.js';
 import { ConfigValidationError, readConfigFile, validateConfig } from './validate.js';
+import type { ConfigKind, ConfigTypes } from './validate.js';
+
+/** A JSON pointer (`/sea/spectrum/k/0`) as a parameter path under `root` (`json.sea.spectrum.k[0]`). */
+function pointerToPath(root: string, pointer: string): string {
+  if (pointer === '') return root;
+  return (
+    root +
+    pointer
+      .slice(1)
+      .split('/')
+      .map((t) => t.replace(/~1/g, '/').replace(/~0/g, '~'))
+      .map((t) => (/^\d+$/.test(t) ? `[${t}]` : `.${t}`))
+      .join('')
+  );
+}
+
+/**
+ * Require `json` to match the schema of `kind` (which also rejects NaN and infinities):
+ * a {@link core!MeniscusTypeError} for a non-object, a {@link core!MeniscusRangeError}
+ * naming the first wrong field (`json.apertures.pitch`) otherwise.
+ */
+function checkJson<K extends ConfigKind>(fn: string, kind: K, json: unknown): ConfigTypes[K] {
+  if (typeof json !== 'object' || json === null || Array.isArray(json)) typeError(fn, 'json', json, `an object (a ${kind} configuration)`);
+  try {
+    return validateConfig(kind, json, 'json');
+  } catch (e) {
+    if (!(e instanceof ConfigValidationError)) throw e;
+    const first = e.issues[0]!;
+    const more = e.issues.length > 1 ? ` (${e.issues.length - 1} more problem${e.issues.length === 2 ? '' : 's'} after this one)` : '';
+    return rangeError(fn, pointerToPath('json', first.pointer), first.value, first.expected + more);
+  }
+}
 
 /**
  * Build the sensor's geometry from its JSON form.
  *
  * @param json - A validated sensor (see `SENSOR_SCHEMA`).
  * @returns The geometry.
- * @throws {@link core!MeniscusRangeError} for values the schema cannot express (an aperture
+ * @throws {@link core!MeniscusTypeError} for a `json` that is not an object;
+ *   {@link core!MeniscusRangeError} naming the field for one that does not match the
+ *   schema (NaN and infinities included), and for values the schema cannot express (an aperture
  *   wider than the pitch, a matrix that is not a rotation).
  * @example
  * ```ts
@@ -30,7 +66,7 @@ import { ConfigValidationError, readConfigFile, validateConfig } from './validat
  * ```
  */
 export function sensorFromJson(json: SensorJson): SensorGeometry {
-  const { apertures, ...rest } = json;
+  const { apertures, ...rest } = checkJson('sensorFromJson', 'sensor', json);
   delete (rest as { $schema?: string }).$schema;
   return createSensorGeometry({ ...rest, apertures: createApertureArray(apertures) });
 }
@@ -40,7 +76,9 @@ export function sensorFromJson(json: SensorJson): SensorGeometry {
  *
  * @param json - A validated camera view (see `CAMERA_SCHEMA`).
  * @returns The view.
- * @throws {@link core!MeniscusRangeError} for a pose whose matrix is not a rotation, or
+ * @throws {@link core!MeniscusTypeError} for a `json` that is not an object;
+ *   {@link core!MeniscusRangeError} naming the field for one that does not match the
+ *   schema, for a pose whose matrix is not a rotation, or
  *   camera parameters the model refuses.
  * @example
  * ```ts
@@ -48,6 +86,7 @@ export function sensorFromJson(json: SensorJson): SensorGeometry {
  * ```
  */
 export function viewFromJson(json: CameraJson): PlaneView {
+  checkJson('viewFromJson', 'camera', json);
   if (json.kind === 'plane') {
     const { kind: _k, $schema: _s, ...o } = json;
     return createPlaneView(o);
@@ -61,7 +100,8 @@ export function viewFromJson(json: CameraJson): PlaneView {
  *
  * @param json - `{ rotation, position }` or `{ eye, target, up? }`.
  * @returns The pose.
- * @throws {@link core!MeniscusRangeError} for a matrix that is not a rotation, or an eye
+ * @throws {@link core!MeniscusTypeError} for a `json` that is not an object;
+ *   {@link core!MeniscusRangeError} for a matrix that is not a rotation, or an eye
  *   on its target.
  * @example
  * ```ts
@@ -69,6 +109,7 @@ export function viewFromJson(json: CameraJson): PlaneView {
  * ```
  */
 export function poseFromJson(json: PoseJson): CameraPose {
+  if (typeof json !== 'object' || json === null || Array.isArray(json)) typeError('poseFromJson', 'json', json, 'an object { rotation, position } or { eye, target, up? }');
   if ('eye' in json) return lookAt(json.eye, json.target, json.up ?? [0, 0, 1]);
   return createCameraPose(json.rotation, json.position);
 }
@@ -79,7 +120,10 @@ export function poseFromJson(json: PoseJson): CameraPose {
  * @param json - A validated light (see `LIGHT_SCHEMA`).
  * @param source - Where it came from, for the message of an unreadable time.
  * @returns The guide light.
- * @throws {@link ConfigValidationError} for a time string that is not a date;
+ * @throws {@link core!MeniscusTypeError} for a `json` that is not an object or a
+ *   `source` that is not a string; {@link core!MeniscusRangeError} naming the field for
+ *   one that does not match the schema;
+ *   {@link ConfigValidationError} for a time string that is not a date;
  *   {@link core!MeniscusRangeError} for a zero direction.
  * @example
  * ```ts
@@ -87,6 +131,8 @@ export function poseFromJson(json: PoseJson): CameraPose {
  * ```
  */
 export function lightFromJson(json: LightJson, source = 'light'): GuideLight {
+  if (typeof source !== 'string') typeError('lightFromJson', 'source', source, 'a string');
+  checkJson('lightFromJson', 'light', json);
   if (json.kind === 'collimated') return createCollimatedLight(json.toLight, json.angularRadius ?? 0);
   if (json.kind === 'point') return createPointLight(json.position, json.radius ?? 0);
   const t = typeof json.time === 'number' ? json.time : Date.parse(json.time);
@@ -106,13 +152,16 @@ export function lightFromJson(json: LightJson, source = 'light'): GuideLight {
  *
  * @param json - A validated design (see `SENSOR_DESIGN_SCHEMA`).
  * @returns The input of {@link sensor!designSensor}.
+ * @throws {@link core!MeniscusTypeError} for a `json` that is not an object;
+ *   {@link core!MeniscusRangeError} naming the JSON field (`json.sea.depth`) for one that
+ *   does not match the schema, NaN and infinities included.
  * @example
  * ```ts
  * designSensor(designInputFromJson(readConfigFile('sensor-design', 'tank-sensor.json')));
  * ```
  */
 export function designInputFromJson(json: SensorDesignJson): SensorDesignInput {
-  const { $schema: _s, sea, ...rest } = json;
+  const { $schema: _s, sea, ...rest } = checkJson('designInputFromJson', 'sensor-design', json);
   if (sea === undefined) return rest;
   const { spectrum, ...seaRest } = sea;
   return { ...rest, sea: spectrum === undefined ? seaRest : { ...seaRest, spectrum: { k: Float64Array.from(spectrum.k), F: Float64Array.from(spectrum.F) } } };
@@ -134,7 +183,8 @@ export interface LoadedRunConfig {
  *
  * @param path - The run file.
  * @returns The run with every part inline.
- * @throws {@link ConfigValidationError} for a file that does not match its schema; the
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for a path
+ *   that is not a non-empty string; {@link ConfigValidationError} for a file that does not match its schema; the
  *   file system's error when a file cannot be read.
  * @example
  * ```ts
@@ -143,6 +193,7 @@ export interface LoadedRunConfig {
  * ```
  */
 export function loadRunConfig(path: string): LoadedRunConfig {
+  checkPathArg('loadRunConfig', 'path', path);
   const raw = readConfigFile('run', path);
   return resolveRunConfig(raw, path);
 }
@@ -162,10 +213,12 @@ export function loadRunConfig(path: string): LoadedRunConfig {
  * ```
  */
 export function resolveRunConfig(run: unknown, path: string): LoadedRunConfig {
+  checkPathArg('resolveRunConfig', 'path', path);
   const raw = validateConfig('run', run, path);
   const baseDir = dirname(resolve(path));
-  const part = <K extends 'sensor' | 'camera' | 'light'>(kind: K, value: unknown): [unknown, string] => {
+  const part = <K extends 'sensor' | 'camera' | 'light'>(kind: K, value: unknown, field: string = kind): [unknown, string] => {
     if (typeof value !== 'string') return [value, path];
+    if (value === '' || value.includes('\0')) rangeError('resolveRunConfig', `run.${field}`, value, 'an inline part or a non-empty file path without NUL characters');
     const file = resolve(baseDir, value);
     return [readConfigFile(kind, file), file];
   };
@@ -175,7 +228,7 @@ export function resolveRunConfig(run: unknown, path: string): LoadedRunConfig {
   const out = { ...raw, sensor, camera, light } as LoadedRunConfig['run'];
   let correctSrc: string | undefined;
   if (raw.correct !== undefined) {
-    const [c, src] = part('camera', raw.correct.camera);
+    const [c, src] = part('camera', raw.correct.camera, 'correct.camera');
     if ((c as CameraJson).kind !== 'camera') {
       const pointer = src === path ? '/correct/camera/kind' : '/kind';
       throw new ConfigValidationError('camera', src, [

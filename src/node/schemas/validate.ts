@@ -8,8 +8,9 @@
 import { readFileSync } from 'node:fs';
 import Ajv from 'ajv';
 import type { ErrorObject, ValidateFunction } from 'ajv';
-import { describeValue, MeniscusRangeError, typeError } from '../../core/index.js';
+import { checkOneOf, describeValue, MeniscusRangeError, rangeError, typeError } from '../../core/index.js';
 import { CAMERA_SCHEMA, LIGHT_SCHEMA } from './camera.js';
+import { checkPathArg } from './paths.js';
 import type { JsonSchema } from './common.js';
 import { RUN_SCHEMA } from './run.js';
 import type { RunConfigJson } from './run.js';
@@ -86,7 +87,20 @@ export class ConfigValidationError extends MeniscusRangeError {
   readonly kind: ConfigKind;
   /** Where the configuration came from (a file path, or the kind). */
   readonly source: string;
+  /**
+   * @param kind - The configuration kind.
+   * @param source - Where the configuration came from.
+   * @param issues - The issues found (at least one).
+   * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for a kind
+   *   that is not a configuration kind, a source that is not a string, or issues that
+   *   are not a non-empty array of {@link ConfigIssue}s.
+   */
   constructor(kind: ConfigKind, source: string, issues: readonly ConfigIssue[]) {
+    checkOneOf('ConfigValidationError', 'kind', kind, CONFIG_KINDS);
+    if (typeof source !== 'string') typeError('ConfigValidationError', 'source', source, 'a string');
+    if (!Array.isArray(issues)) typeError('ConfigValidationError', 'issues', issues, 'a non-empty array of configuration issues');
+    if (issues.length === 0) rangeError('ConfigValidationError', 'issues', issues, 'a non-empty array of configuration issues');
+    for (let k = 0; k < issues.length; k++) checkIssue('ConfigValidationError', `issues[${k}]`, issues[k]);
     const first = issues[0]!;
     super({ fn: 'validateConfig', parameter: first.pointer || '/', value: first.value, expected: first.expected });
     this.issues = issues;
@@ -101,6 +115,8 @@ export class ConfigValidationError extends MeniscusRangeError {
  *
  * @param issue - An issue.
  * @returns The line.
+ * @throws {@link core!MeniscusTypeError} when `issue` is not an object with string
+ *   `pointer`, `expected` and `keyword`.
  * @example
  * ```ts
  * formatConfigIssue({ pointer: '/pitch', value: -1, expected: 'a number > 0', keyword: 'exclusiveMinimum' });
@@ -108,8 +124,19 @@ export class ConfigValidationError extends MeniscusRangeError {
  * ```
  */
 export function formatConfigIssue(issue: ConfigIssue): string {
+  checkIssue('formatConfigIssue', 'issue', issue);
   const got = issue.keyword === 'required' ? 'it is missing' : `got ${describeValue(issue.value)}`;
   return `  ${issue.pointer || '/'}: expected ${issue.expected}; ${got}${issue.description ? ` (${issue.description.replace(/\.$/, '')})` : ''}`;
+}
+
+/** Require a {@link ConfigIssue}: an object with string `pointer`, `expected` and `keyword` (and `description`, when given). */
+function checkIssue(fn: string, parameter: string, issue: unknown): asserts issue is ConfigIssue {
+  if (typeof issue !== 'object' || issue === null) typeError(fn, parameter, issue, 'a configuration issue { pointer, value, expected, keyword }');
+  const o = issue as Record<string, unknown>;
+  for (const key of ['pointer', 'expected', 'keyword'] as const) {
+    if (typeof o[key] !== 'string') typeError(fn, `${parameter}.${key}`, o[key], 'a string');
+  }
+  if (o.description !== undefined && typeof o.description !== 'string') typeError(fn, `${parameter}.description`, o.description, 'a string or undefined');
 }
 
 let ajv: Ajv | null = null;
@@ -297,13 +324,17 @@ export function validateConfig<K extends ConfigKind>(kind: K, value: unknown, so
  * @param text - The JSON text.
  * @param source - Where it came from.
  * @returns The parsed value.
- * @throws {@link ConfigValidationError} for invalid JSON.
+ * @throws {@link ConfigValidationError} for invalid JSON; {@link core!MeniscusTypeError} /
+ *   {@link core!MeniscusRangeError} for an unknown kind or a text or source that is not a string.
  * @example
  * ```ts
  * parseConfigText('run', '{"frames": }', 'run.json'); // throws: … at line 1, column 12
  * ```
  */
 export function parseConfigText(kind: ConfigKind, text: string, source: string): unknown {
+  checkOneOf('parseConfigText', 'kind', kind, CONFIG_KINDS);
+  if (typeof text !== 'string') typeError('parseConfigText', 'text', text, 'a string of JSON text');
+  if (typeof source !== 'string') typeError('parseConfigText', 'source', source, 'a string');
   try {
     return JSON.parse(text) as unknown;
   } catch (e) {
@@ -414,7 +445,9 @@ function jsonErrorAt(text: string): [number, string] {
  * @param kind - The configuration kind.
  * @param path - The file.
  * @returns The validated configuration.
- * @throws {@link ConfigValidationError} for invalid JSON or a schema mismatch; the file
+ * @throws {@link core!MeniscusTypeError} / {@link core!MeniscusRangeError} for an unknown
+ *   kind or a path that is not a non-empty string;
+ *   {@link ConfigValidationError} for invalid JSON or a schema mismatch; the file
  *   system's error (with its `code`, e.g. `ENOENT`) when it cannot be read.
  * @example
  * ```ts
@@ -423,6 +456,8 @@ function jsonErrorAt(text: string): [number, string] {
  * ```
  */
 export function readConfigFile<K extends ConfigKind>(kind: K, path: string): ConfigTypes[K] {
+  checkOneOf('readConfigFile', 'kind', kind, CONFIG_KINDS);
+  checkPathArg('readConfigFile', 'path', path);
   const text = readFileSync(path, 'utf8');
   return validateConfig(kind, parseConfigText(kind, text, path), path);
 }
