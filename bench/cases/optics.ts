@@ -5,6 +5,10 @@
  * Inputs: unit directions going down, zenith angle uniform in [0, 60°), azimuth uniform
  * in [0, 2π); unit normals tilted uniformly up to 30° from +z, azimuth uniform; air
  * (1.000293) into water (1.333). Drawn with the core seeded generator (seed 13).
+ *
+ * The output and status buffers are allocated once and passed as `options.out` /
+ * `options.status`, as a video-rate user of the batch API does (the peer cannot avoid
+ * allocating its temporaries).
  */
 import type { BenchCase } from '../case.js';
 import { Status, createRng } from '../../src/core/index.js';
@@ -47,8 +51,10 @@ export const cases: BenchCase[] = [
     quickSize: 1000,
     prepare(size) {
       const { d, nn } = rays(size, 13);
+      const out = new Float64Array(3 * size);
+      const status = new Uint8Array(size);
       return {
-        run: () => refractBatch(d, nn, N_AIR, N_WATER),
+        run: () => refractBatch(d, nn, N_AIR, N_WATER, { out, status }),
         error(result) {
           const { directions: t, status } = result as ReturnType<typeof refractBatch>;
           let worst = 0;
@@ -72,8 +78,10 @@ export const cases: BenchCase[] = [
     prepare(size) {
       const { d, nn } = rays(size, 13);
       const { directions: t } = refractBatch(d, nn, N_AIR, N_WATER);
+      const out = new Float64Array(3 * size);
+      const status = new Uint8Array(size);
       return {
-        run: () => normalFromRaysBatch(d, t, N_AIR, N_WATER),
+        run: () => normalFromRaysBatch(d, t, N_AIR, N_WATER, { out, status }),
         error(result) {
           const { normals: m, status } = result as ReturnType<typeof normalFromRaysBatch>;
           let worst = 0;
