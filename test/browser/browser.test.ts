@@ -72,9 +72,18 @@ describe('the ESM build in headless Chromium', () => {
       const fromNode = runScenario(mod);
       const diff = compareResults(fromNode, fromPage as ReturnType<typeof runScenario>);
       expect(diff.keys).toEqual(Object.keys(fromNode).sort());
-      // Same engine family and the same integer-based generator: agreement to the last
-      // few bits (1e-12 relative allows for a different libm in another V8 build).
-      expect(diff.maxRelative).toBeLessThan(1e-12);
+      console.log('largest relative difference, browser vs Node, per output:', diff.perKey);
+      // The seeded generator and the rendered sensor frame are integer-driven and must be
+      // bit-identical. Chromium's V8 is newer than Node 20's and its Math.sin/exp/pow may
+      // differ in the last bit, so the heights agree to rounding (relative to their
+      // scale), and the corrected image, whose rasteriser decides which mesh triangle
+      // owns a pixel centre, to 1e-4 of its scale (a pixel centre lying on an edge to
+      // within rounding may be sampled from the neighbouring triangle).
+      expect(diff.perKey.draws).toBe(0);
+      expect(diff.perKey.frame).toBe(0);
+      expect(diff.perKey.spotsMatched).toBe(0);
+      expect(diff.perKey.height).toBeLessThan(1e-12);
+      expect(diff.perKey.corrected).toBeLessThan(1e-4);
     } finally {
       await browser.close();
     }
