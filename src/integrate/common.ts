@@ -5,14 +5,21 @@
  * @internal
  */
 import {
+  checkAllocation,
+  checkFinite,
   checkGrid,
+  checkInteger,
   checkMask,
+  checkOptions,
+  checkPositive,
+  LIMITS,
   checkSameShape,
   checkOut,
   createGrid,
   rangeError,
   typeError,
   type Grid,
+  type GridSpec,
   type Mask,
 } from '../core/index.js';
 
@@ -183,4 +190,28 @@ export function refuseOption(fn: string, options: object, names: readonly string
     const v = (options as Record<string, unknown>)[name];
     if (v !== undefined) typeError(fn, `options.${name}`, v, `undefined (${why})`);
   }
+}
+
+/**
+ * Validate the grid spec given to a prepared transform solver.
+ *
+ * @param allocationFactor - Samples the solver allocates per grid sample, for the size guard.
+ * @returns The size and spacing, defaults unpacked (dx 1, dy dx).
+ * @internal
+ */
+export function checkSolverSpec(
+  fn: string,
+  spec: GridSpec | undefined,
+  allocationFactor: number,
+): { w: number; h: number; dx: number; dy: number } {
+  if (spec === undefined) typeError(fn, 'spec', spec, 'a grid spec {width, height, dx?, dy?, x0?, y0?}');
+  checkOptions(fn, spec, 'spec');
+  const w = checkInteger(fn, 'spec.width', spec.width, 1, LIMITS.maxSide);
+  const h = checkInteger(fn, 'spec.height', spec.height, 1, LIMITS.maxSide);
+  checkAllocation(fn, 'spec.width × spec.height', allocationFactor * w * h);
+  const dx = spec.dx === undefined ? 1 : checkPositive(fn, 'spec.dx', spec.dx);
+  const dy = spec.dy === undefined ? dx : checkPositive(fn, 'spec.dy', spec.dy);
+  if (spec.x0 !== undefined) checkFinite(fn, 'spec.x0', spec.x0);
+  if (spec.y0 !== undefined) checkFinite(fn, 'spec.y0', spec.y0);
+  return { w, h, dx, dy };
 }

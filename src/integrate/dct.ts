@@ -4,9 +4,9 @@
  *
  * @module
  */
-import { checkAllocation, checkInteger, checkOptions, checkPositive, checkFinite, createGrid, typeError, LIMITS } from '../core/index.js';
+import { checkOptions, createGrid, typeError } from '../core/index.js';
 import type { Grid, GridSpec } from '../core/index.js';
-import { checkSlopes, fullMask, outBuffer } from './common.js';
+import { checkSlopes, checkSolverSpec, fullMask, outBuffer } from './common.js';
 import { FastDct } from './fft.js';
 import type { IntegrationResult } from './types.js';
 
@@ -252,16 +252,7 @@ function columnSolve(
  * ```
  */
 export function prepareDctPoisson(spec: GridSpec): PreparedDctPoisson {
-  const fn = 'prepareDctPoisson';
-  if (spec === undefined) typeError(fn, 'spec', spec, 'a grid spec {width, height, dx?, dy?, x0?, y0?}');
-  checkOptions(fn, spec, 'spec');
-  const w = checkInteger(fn, 'spec.width', spec.width, 1, LIMITS.maxSide);
-  const h = checkInteger(fn, 'spec.height', spec.height, 1, LIMITS.maxSide);
-  checkAllocation(fn, 'spec.width × spec.height', w * h);
-  const dx = spec.dx === undefined ? 1 : checkPositive(fn, 'spec.dx', spec.dx);
-  const dy = spec.dy === undefined ? dx : checkPositive(fn, 'spec.dy', spec.dy);
-  if (spec.x0 !== undefined) checkFinite(fn, 'spec.x0', spec.x0);
-  if (spec.y0 !== undefined) checkFinite(fn, 'spec.y0', spec.y0);
+  const { w, h, dx, dy } = checkSolverSpec('prepareDctPoisson', spec, 1);
   return new DctSolver(w, h, dx, dy);
 }
 
