@@ -7,15 +7,10 @@
  */
 import type { BenchCase } from '../case.js';
 import { createImage, createRng } from '../../src/core/index.js';
-import { createSinusoidSurface } from '../../src/surface/index.js';
-import { createCollimatedLight } from '../../src/sun/index.js';
+import { createRoundTripScene, interiorHeightError } from '../../test/sensor/round-trip-scene.js';
 import {
-  createApertureArray,
-  createPlaneView,
-  createSensorGeometry,
   detectSpots,
   measureFrame,
-  referenceSpots,
   renderSpotFrame,
   traceSpots,
 } from '../../src/sensor/index.js';
@@ -95,25 +90,7 @@ function frameCase(windowed = false): BenchCase {
     prepare(n: number) {
       // One n × n frame of a 32 × 32 hexagonal sensor under a sun-like light 40° from the
       // zenith, over two crossing wave trains; pixels → height map with one refinement pass.
-      const domain = { xMin: -1, xMax: 1, yMin: -1, yMax: 1 };
-      const sea = createSinusoidSurface({
-        components: [
-          { amplitude: 0.004, kx: (2 * Math.PI) / 0.2, ky: (2 * Math.PI) / 0.5, phase: 0.3 },
-          { amplitude: 0.002, kx: (-2 * Math.PI) / 0.4, ky: (2 * Math.PI) / 0.15, phase: 1.1 },
-        ],
-        domain,
-      });
-      const th = (40 * Math.PI) / 180;
-      const light = createCollimatedLight([Math.sin(th), 0, Math.cos(th)], 0.00465);
-      const arr = createApertureArray({ lattice: 'hexagonal', pitch: 0.01, columns: 32, rows: 32, apertureDiameter: 0.001 });
-      const geometry = createSensorGeometry({ apertures: arr, maskDepth: 0.3, planeDistance: 0.05 });
-      const reference = referenceSpots(geometry, light);
-      let cx = 0, cy = 0;
-      for (let k = 0; k < arr.count; k++) {
-        cx += reference.x[k]! / arr.count;
-        cy += reference.y[k]! / arr.count;
-      }
-      const view = createPlaneView({ width: n, height: n, pixelSize: (0.36e-3 * 1024) / n, centre: [cx, cy] });
+      const { sea, light, geometry, reference, view } = createRoundTripScene(n);
       const frame = renderSpotFrame(traceSpots(geometry, sea, light), light, view, { photonsPerSpot: 30000, seed: 4 });
       // The windowed variant searches ±10 px around the spots of a previous frame (here the
       // same frame's spots shifted by 2 px, found once outside the timing), as a stream of
@@ -124,23 +101,7 @@ function frameCase(windowed = false): BenchCase {
         run: () => measureFrame(frame.image, { geometry, light, view, reference }, { detect, reconstruct: { maxIterations: 1 } }),
         error(result: unknown) {
           // RMS height error over the interior nodes (two-node border dropped), metres.
-          const h = (result as FrameMeasurement).reconstruction!.height;
-          let n2 = 0, mh = 0, mt = 0;
-          const inner = (i: number, j: number): boolean => i >= 2 && j >= 2 && i < h.width - 2 && j < h.height - 2;
-          for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
-            if (!inner(i, j)) continue;
-            mh += h.data[j * h.width + i]!;
-            mt += sea.height(h.x0 + i * h.dx, h.y0 + j * h.dy);
-            n2++;
-          }
-          mh /= n2;
-          mt /= n2;
-          let se = 0;
-          for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
-            if (!inner(i, j)) continue;
-            se += (h.data[j * h.width + i]! - mh - (sea.height(h.x0 + i * h.dx, h.y0 + j * h.dy) - mt)) ** 2;
-          }
-          return Math.sqrt(se / n2);
+          return interiorHeightError((result as FrameMeasurement).reconstruction!.height, sea).rms;
         },
         notes: (ms: number) => `${(1000 / ms).toFixed(2)} frames/s (1 refinement pass${windowed ? ', windowed search' : ''})`,
       };

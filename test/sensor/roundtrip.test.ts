@@ -1,54 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { createImage } from '../../src/core/index.js';
-import type { Grid } from '../../src/core/index.js';
-import { createSinusoidSurface } from '../../src/surface/index.js';
-import type { Surface } from '../../src/surface/index.js';
-import { createCollimatedLight } from '../../src/sun/index.js';
-import { createApertureArray, createPlaneView, createSensorGeometry, measureFrame, referenceSpots, renderSpotFrame, traceSpots } from '../../src/sensor/index.js';
+import { measureFrame, renderSpotFrame, traceSpots } from '../../src/sensor/index.js';
+import { createRoundTripScene, interiorHeightError } from './round-trip-scene.js';
 
-const domain = { xMin: -1, xMax: 1, yMin: -1, yMax: 1 };
-// A simulated sea: two crossing wave trains, 4 mm and 2 mm amplitude, 15–50 cm wavelengths.
-const sea = createSinusoidSurface({
-  components: [
-    { amplitude: 0.004, kx: (2 * Math.PI) / 0.2, ky: (2 * Math.PI) / 0.5, phase: 0.3 },
-    { amplitude: 0.002, kx: (-2 * Math.PI) / 0.4, ky: (2 * Math.PI) / 0.15, phase: 1.1 },
-  ],
-  domain,
-});
-// Sun-like light 40° from the zenith: oblique rays make the mean-level assumption matter.
-const th = (40 * Math.PI) / 180;
-const light = createCollimatedLight([Math.sin(th), 0, Math.cos(th)], 0.00465);
-const arr = createApertureArray({ lattice: 'hexagonal', pitch: 0.01, columns: 32, rows: 32, apertureDiameter: 0.001 });
-const geometry = createSensorGeometry({ apertures: arr, maskDepth: 0.3, planeDistance: 0.05 });
-const reference = referenceSpots(geometry, light);
-let cx = 0, cy = 0;
-for (let k = 0; k < arr.count; k++) {
-  cx += reference.x[k]! / arr.count;
-  cy += reference.y[k]! / arr.count;
-}
-const view = createPlaneView({ width: 1024, height: 1024, pixelSize: 0.36e-3, centre: [cx, cy] });
-
-/** RMS height error over the interior nodes (two-node border dropped), both sides at zero mean. */
-function heightError(h: Grid, truth: Surface): { rms: number; rmsHeight: number } {
-  let n = 0, mh = 0, mt = 0;
-  const inner = (i: number, j: number): boolean => i >= 2 && j >= 2 && i < h.width - 2 && j < h.height - 2;
-  for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
-    if (!inner(i, j)) continue;
-    mh += h.data[j * h.width + i]!;
-    mt += truth.height(h.x0 + i * h.dx, h.y0 + j * h.dy);
-    n++;
-  }
-  mh /= n;
-  mt /= n;
-  let se = 0, st = 0;
-  for (let j = 0; j < h.height; j++) for (let i = 0; i < h.width; i++) {
-    if (!inner(i, j)) continue;
-    const t = truth.height(h.x0 + i * h.dx, h.y0 + j * h.dy) - mt;
-    se += (h.data[j * h.width + i]! - mh - t) ** 2;
-    st += t * t;
-  }
-  return { rms: Math.sqrt(se / n), rmsHeight: Math.sqrt(st / n) };
-}
+const { sea, light, apertures: arr, geometry, reference, view } = createRoundTripScene();
+const heightError = interiorHeightError;
 
 describe('measureFrame round trip (analytic sea → rendered frame → spots → matching → slopes → integration)', () => {
   it('recovers the surface, and refinement lowers the height error against the single pass', () => {
