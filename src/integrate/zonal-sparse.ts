@@ -125,21 +125,57 @@ export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Arra
 }
 
 /**
+ * Diagonal shifts `α` tried in turn by `incompleteCholesky`: the factor is of
+ * `A + α·diag(A)`. The last is large enough for the thin-plate and gradient stencils to be
+ * diagonally dominant (an H-matrix, whose incomplete factor exists).
+ */
+const IC_SHIFTS = [0, 1e-3, 1e-2, 0.05, 0.2, 1, 4];
+
+/**
  * Incomplete Cholesky factor `L` (lower offsets and diagonal of the box pattern) with
- * `A ≈ L Lᵀ`. Rows with a zero diagonal (unused nodes) get `L_kk = 1`. A pivot that
- * falls below `1e-6 · A_kk` (the last node of each singular piece) is replaced by
- * `A_kk`, which keeps the preconditioner positive definite.
+ * `A + α·diag(A) ≈ L Lᵀ`, for the smallest shift `α` in `IC_SHIFTS` at which the
+ * factorisation does not break down. Rows with a zero diagonal (unused nodes) get
+ * `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each singular piece,
+ * zero up to rounding) is replaced by `A_kk`, which keeps the preconditioner positive
+ * definite.
+ *
+ * Breakdown: for matrices that are not M-matrices (the thin-plate penalty of the
+ * scattered integrator over a region without data, whose 13-point biharmonic stencil has
+ * positive off-diagonals) the unshifted incomplete factor can meet a negative pivot, and
+ * the entries of the following rows then grow without bound (to overflow and NaN). A
+ * pivot below `−1e-6 · A_kk`, or a non-finite entry, rejects the factor and the next
+ * shift is tried; with every shift failing, the diagonal (Jacobi) factor is returned.
  *
  * @see Meijerink, J. A. & van der Vorst, H. A. (1977), "An iterative solution method for
  *   linear systems of which the coefficient matrix is a symmetric M-matrix", Mathematics
  *   of Computation 31(137), 148–162.
+ * @see Manteuffel, T. A. (1980), "An incomplete factorization technique for positive
+ *   definite linear systems", Mathematics of Computation 34(150), 473–497 (the diagonal
+ *   shift that restores the factor's existence).
  * @internal
  */
 export function incompleteCholesky(A: StencilMatrix): Float64Array {
-  const { width, height, size, center, coef, di, dj, off, side, radius } = A;
-  const L = new Float64Array(coef.length);
-  // For each lower offset o, the pairs (o1, o2) with o1 < o lower and d(o1) − d(o) = d(o2)
-  // inside the box: L_ik −= L_i,m · L_k,m for m = i + d(o1) = k + d(o2).
+  const L = new Float64Array(A.coef.length);
+  const pairs = icPairs(A);
+  for (const shift of IC_SHIFTS) {
+    if (icFactor(A, pairs, 1 + shift, L)) return L;
+    L.fill(0);
+  }
+  const { size, center, coef } = A;
+  const n = A.width * A.height;
+  for (let k = 0; k < n; k++) {
+    const akk = coef[k * size + center]!;
+    L[k * size + center] = akk > 0 ? Math.sqrt(akk) : 1;
+  }
+  return L;
+}
+
+/**
+ * For each lower offset o, the pairs (o1, o2) with o1 < o lower and d(o1) − d(o) = d(o2)
+ * inside the box: L_ik −= L_i,m · L_k,m for m = i + d(o1) = k + d(o2).
+ */
+function icPairs(A: StencilMatrix): number[][] {
+  const { center, di, dj, side, radius } = A;
   const pairs: number[][] = [];
   for (let o = 0; o < center; o++) {
     const list: number[] = [];
@@ -153,6 +189,15 @@ export function incompleteCholesky(A: StencilMatrix): Float64Array {
     }
     pairs.push(list);
   }
+  return pairs;
+}
+
+/**
+ * One incomplete factorisation of `A` with its diagonal scaled by `diagScale` (≥ 1),
+ * into `L` (zeroed). Returns `false` on breakdown (see `incompleteCholesky`).
+ */
+function icFactor(A: StencilMatrix, pairs: readonly number[][], diagScale: number, L: Float64Array): boolean {
+  const { width, height, size, center, coef, di, dj, off } = A;
   for (let j = 0; j < height; j++) {
     for (let i = 0; i < width; i++) {
       const k = j * width + i;
@@ -162,7 +207,8 @@ export function incompleteCholesky(A: StencilMatrix): Float64Array {
         L[base + center] = 1;
         continue;
       }
-      let diag = akk;
+      const dkk = diagScale * akk;
+      let diag = dkk;
       for (let o = 0; o < center; o++) {
         const ii = i + di[o]!;
         const jj = j + dj[o]!;
@@ -183,10 +229,11 @@ export function incompleteCholesky(A: StencilMatrix): Float64Array {
         L[base + o] = l;
         diag -= l * l;
       }
-      L[base + center] = Math.sqrt(diag >= 1e-6 * akk ? diag : akk);
+      if (!(diag >= -1e-6 * dkk) || !Number.isFinite(diag)) return false;
+      L[base + center] = Math.sqrt(diag >= 1e-6 * dkk ? diag : dkk);
     }
   }
-  return L;
+  return true;
 }
 
 /**

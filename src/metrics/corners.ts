@@ -7,15 +7,24 @@
  * 1. Saddle points: the image is smoothed with a Gaussian of `sigma` pixels and the
  *    response `R = Ixy² − Ixx·Iyy` (minus the Hessian determinant, large and positive at
  *    the X-junction where four squares meet) is thresholded and non-maximum suppressed.
- * 2. Lattice growth: from a seed corner with four opposite neighbours, the lattice grows
- *    one step at a time, each new corner searched near the position predicted from its
- *    already indexed neighbours (a linear or, where two earlier steps are known, quadratic
- *    extrapolation of the local step). No global homography is assumed, so smooth
- *    distortions are followed, and a missing corner is stepped over. Each accepted
- *    neighbour must have the opposite saddle polarity (checkerboard colours alternate),
- *    a response within a factor 10 of its neighbour's, and must look the same after a
- *    half turn about itself (point symmetry, which rejects the L-junctions at the board's
- *    rim and the T-junctions where an occluder's edge crosses the squares).
+ * 2. Lattice growth: from a seed corner with four neighbours in two nearly opposite pairs,
+ *    the lattice grows best-first, one slot at a time. Each empty slot next to the indexed
+ *    corners is predicted from the local lattice vectors of its indexed neighbours: the
+ *    parallelogram completion `P(i−1, j) + P(i, j−1) − P(i−1, j−1)` of every cell around
+ *    it whose other three corners are known (exact for any locally affine map), or, where
+ *    there is none, the extension `2P(i−1) − P(i−2)` of a lattice line; slots with more
+ *    cell completions are filled first. No global affine map or homography is assumed,
+ *    so smooth distortions are followed. The candidate nearest the prediction, within 0.7
+ *    of the local side, is accepted only if it has the opposite saddle polarity to each
+ *    indexed 4-neighbour (checkerboard colours alternate) and a response within a factor
+ *    10 of theirs; if the segment to each of them runs along a square's side (the image
+ *    differs with one sign across it all along: a diagonal or a jump into the next row
+ *    crosses squares); if it folds no cell and keeps the sides along a line within a
+ *    factor 3; if it looks the same after a half turn about itself (point symmetry, which
+ *    rejects the L-junctions at the board's rim and the T-junctions where an occluder's
+ *    edge crosses the squares); and if no second such candidate is nearly as close
+ *    (ambiguous slots stay empty). A slot without an acceptable candidate is reported as
+ *    missing; where a line's next slot is missing, one corner is stepped over.
  * 3. Sub-pixel refinement by the gradient-orthogonality condition: every image gradient
  *    near the corner is orthogonal to the vector from the corner to its pixel; the
  *    weighted least-squares solution is iterated with a smooth weight re-centred on each
@@ -23,7 +32,12 @@
  *
  * Accuracy on rendered anti-aliased boards at good contrast (see the tests): about
  * 0.01–0.03 px RMS undistorted; under strong local warps the curved edges add a bias of
- * up to about 0.1 px.
+ * up to about 0.1–0.3 px. Indexing on those boards (squares of 24 px, smooth sinusoidal
+ * warps of peak displacement `a` and wavelength `λ`, peak displacement gradient
+ * `g = 2πa/λ`): every corner found at its true index up to `g = 0.42` (a displacement
+ * of a third of a square at `λ` = 5 squares, a quarter at 3.75 squares); beyond that,
+ * and for waves shorter than about 3 squares, corners go missing, but in the tests up to
+ * `g = 0.84` none was given a wrong index.
  *
  * @module
  */
@@ -94,16 +108,33 @@ const NOT_FOUND_EMPTY = (candidates: number): CheckerboardDetection => ({
 const MAX_CANDIDATES = 20000;
 /** Seeds whose cross of four neighbours passes the test, tried at most. */
 const MAX_SEEDS = 8;
-/** Search radius for a predicted corner, as a fraction of the local step. */
+/** Search radius for a corner stepped over, as a fraction of the local step. */
 const SEARCH_FRACTION = 0.45;
-/** Largest misfit of the seed's opposite neighbours, as a fraction of their distance. */
-const SEED_OPPOSITE = 0.3;
+/**
+ * Search radius for a neighbour, as a fraction of the shortest side its prediction used.
+ * Wide, so that the prediction may miss by most of a side where the squares' size changes
+ * fast; polarity, the edge test, the fold test and the ambiguity test keep the corners of
+ * other slots out.
+ */
+const NEIGHBOUR_SEARCH = 0.7;
+/** Smallest cosine of the angle between one of the seed's neighbours and the reverse of the opposite one (40°). */
+const SEED_OPPOSITE = 0.766;
 /** Accepted response ratio between neighbours (either way). */
 const RESPONSE_RATIO = 0.1;
 /** Radius of the point-symmetry test, as a fraction of the local step. */
 const SYMMETRY_RADIUS = 0.25;
 /** Largest asymmetry (see `isSymmetric`) of an accepted corner. */
 const MAX_ASYMMETRY = 0.3;
+/** Offset of the edge test's samples from the segment, as a fraction of its length. */
+const EDGE_OFFSET = 0.2;
+/** Smallest intensity step across a side in the edge test, as a fraction of the samples' spread. */
+const EDGE_CONTRAST = 0.4;
+/** Largest ratio between a new side and the next side along the same lattice line. */
+const MAX_SIDE_RATIO = 3;
+/** Smallest `sin` of the angle between two sides at a new corner (about 10°). */
+const MIN_TURN = 0.17;
+/** A search is ambiguous when a second fitting candidate is less than `1 / AMBIGUITY` times farther than the nearest. */
+const AMBIGUITY = 0.6;
 
 /**
  * Detect and index the inner corners of a checkerboard.
@@ -430,7 +461,7 @@ function growBest(cand: Candidates, S: Float32Array, W: number, H: number, minCo
   for (let t = 0; t < maxTries && seeds < MAX_SEEDS; t++) {
     const s = order[t]!;
     if (used[s] === 1) continue;
-    const cross = seedCross(cand, s, buckets, W, H);
+    const cross = seedCross(cand, s, buckets, S, W, H);
     if (cross === null) continue;
     const r0 = 0.25 * Math.min(...cross.map((c) => Math.hypot(cand.x[c]! - cand.x[s]!, cand.y[c]! - cand.y[s]!)));
     if (!isSymmetric(S, W, H, cand.x[s]!, cand.y[s]!, r0) || cross.some((c) => !isSymmetric(S, W, H, cand.x[c]!, cand.y[c]!, r0))) {
@@ -458,7 +489,7 @@ function ratioOk(c: Candidates, a: number, b: number): boolean {
 }
 
 /** Four neighbours of a seed forming two opposite pairs: [+e1, −e1, +e2, −e2] candidate ids. */
-function seedCross(cand: Candidates, s: number, buckets: Buckets, W: number, H: number): [number, number, number, number] | null {
+function seedCross(cand: Candidates, s: number, buckets: Buckets, S: Float32Array, W: number, H: number): [number, number, number, number] | null {
   const sx = cand.x[s]!;
   const sy = cand.y[s]!;
   // Nearest opposite-polarity neighbours, found ring by ring in the buckets.
@@ -498,8 +529,11 @@ function seedCross(cand: Candidates, s: number, buckets: Buckets, W: number, H: 
     let bestE = Infinity;
     for (const { id } of list) {
       if (exclude.has(id)) continue;
-      const e = Math.hypot(vx(a) + vx(id), vy(a) + vy(id));
-      if (e < SEED_OPPOSITE * la && e < bestE) {
+      const lb = Math.hypot(vx(id), vy(id));
+      // Nearly opposite (a kinked lattice line still counts), of comparable length, along a side.
+      if (-(vx(a) * vx(id) + vy(a) * vy(id)) < SEED_OPPOSITE * la * lb || la > MAX_SIDE_RATIO * lb || lb > MAX_SIDE_RATIO * la) continue;
+      const e = Math.hypot(vx(a) + vx(id), vy(a) + vy(id)) / (la + lb);
+      if (e < bestE && isEdge(S, W, H, sx, sy, cand.x[id]!, cand.y[id]!)) {
         bestE = e;
         bestId = id;
       }
@@ -508,6 +542,7 @@ function seedCross(cand: Candidates, s: number, buckets: Buckets, W: number, H: 
   };
   for (let p = 0; p < list.length; p++) {
     const a = list[p]!.id;
+    if (!isEdge(S, W, H, sx, sy, cand.x[a]!, cand.y[a]!)) continue;
     const b = opposite(a, new Set([a]));
     if (b < 0) continue;
     const la = Math.hypot(vx(a), vy(a));
@@ -518,6 +553,7 @@ function seedCross(cand: Candidates, s: number, buckets: Buckets, W: number, H: 
       if (lc > 2 * la || la > 2 * lc) continue;
       const cr = Math.abs(vx(a) * vy(c) - vy(a) * vx(c));
       if (cr < 0.5 * la * lc) continue;
+      if (!isEdge(S, W, H, sx, sy, cand.x[c]!, cand.y[c]!)) continue;
       const d = opposite(c, new Set([a, b, c]));
       if (d < 0) continue;
       return [a, b, c, d];
@@ -526,7 +562,7 @@ function seedCross(cand: Candidates, s: number, buckets: Buckets, W: number, H: 
   return null;
 }
 
-/** Grow a lattice from a seed and its cross of neighbours. */
+/** Grow a lattice from a seed and its cross of neighbours (stage 2 of the module description). */
 function grow(
   cand: Candidates,
   s: number,
@@ -543,132 +579,307 @@ function grow(
   const ii: number[] = [];
   const jj: number[] = [];
   const idx: number[] = [];
+  const get = (i: number, j: number): number => {
+    const v = at.get(packKey(i, j));
+    return v === undefined ? -1 : v;
+  };
+  const heap = new SlotHeap();
+  /** Best priority at which a slot's search failed (retried only with a better prediction). */
+  const failed = new Map<number, number>();
+  const pred = new Float64Array(3);
   const put = (i: number, j: number, c: number): void => {
     at.set(packKey(i, j), c);
     assigned[c] = 1;
     ii.push(i);
     jj.push(j);
     idx.push(c);
-  };
-  put(0, 0, s);
-  put(1, 0, cross[0]);
-  put(-1, 0, cross[1]);
-  put(0, 1, cross[2]);
-  put(0, -1, cross[3]);
-  const get = (i: number, j: number): number => {
-    const v = at.get(packKey(i, j));
-    return v === undefined ? -1 : v;
-  };
-  const step = new Float64Array(2);
-  /** The local lattice step at (i, j) in direction (di, dj), into `step`; false when unknown. */
-  const stepAt = (i: number, j: number, di: number, dj: number): boolean => {
-    const n = get(i, j);
-    const a = get(i - di, j - dj);
-    if (a >= 0) {
-      let sx = X[n]! - X[a]!;
-      let sy = Y[n]! - Y[a]!;
-      const b = get(i - 2 * di, j - 2 * dj);
-      if (b >= 0) {
-        // Quadratic extrapolation: add the change of step.
-        sx += sx - (X[a]! - X[b]!);
-        sy += sy - (Y[a]! - Y[b]!);
-      }
-      step[0] = sx;
-      step[1] = sy;
-      return true;
+    // Slots whose predictions may use the new corner: its 8 neighbours and the slots two steps along the axes.
+    for (const [di, dj] of AFFECTED) {
+      const a = i + di;
+      const b = j + dj;
+      if (get(a, b) >= 0) continue;
+      const p = predict(a, b, pred);
+      if (p > 0) heap.push(p, a, b);
     }
-    for (const sgn of [1, -1]) {
-      const pi = i - sgn * dj;
-      const pj = j + sgn * di;
-      const m = get(pi, pj);
-      if (m < 0) continue;
-      const f = get(pi + di, pj + dj);
+  };
+  // Orientation of the seed's cell: the sign of cross(e1, e2) every accepted cell keeps (no fold).
+  const e1x = X[cross[0]]! - X[s]!;
+  const e1y = Y[cross[0]]! - Y[s]!;
+  const e2x = X[cross[2]]! - X[s]!;
+  const e2y = Y[cross[2]]! - Y[s]!;
+  const orient = Math.sign(e1x * e2y - e1y * e2x);
+
+  /**
+   * Predicted position of slot (i, j) into `out` (x, y, shortest lattice side used):
+   * the mean of the parallelogram completions `P(i−a, j) + P(i, j−b) − P(i−a, j−b)` of the
+   * cells around it whose three other corners are known, or, where there is none, the
+   * mean of the linear extrapolations `2P(i−d) − P(i−2d)` along the lattice lines.
+   * Returns the priority (0 = no prediction): `2 + cells` or `1` for lines only.
+   */
+  function predict(i: number, j: number, out: Float64Array): number {
+    let sx = 0;
+    let sy = 0;
+    let cnt = 0;
+    let side = Infinity;
+    for (const [a, b] of DIAGONALS) {
+      const p = get(i - a, j);
+      if (p < 0) continue;
+      const q = get(i, j - b);
+      if (q < 0) continue;
+      const r = get(i - a, j - b);
+      if (r < 0) continue;
+      sx += X[p]! + X[q]! - X[r]!;
+      sy += Y[p]! + Y[q]! - Y[r]!;
+      cnt++;
+      side = Math.min(side, Math.hypot(X[p]! - X[r]!, Y[p]! - Y[r]!), Math.hypot(X[q]! - X[r]!, Y[q]! - Y[r]!));
+    }
+    if (cnt > 0) {
+      out[0] = sx / cnt;
+      out[1] = sy / cnt;
+      out[2] = side;
+      return 2 + cnt;
+    }
+    for (const [di, dj] of AXES) {
+      const p = get(i - di, j - dj);
+      if (p < 0) continue;
+      const q = get(i - 2 * di, j - 2 * dj);
+      if (q < 0) continue;
+      sx += 2 * X[p]! - X[q]!;
+      sy += 2 * Y[p]! - Y[q]!;
+      cnt++;
+      side = Math.min(side, Math.hypot(X[p]! - X[q]!, Y[p]! - Y[q]!));
+    }
+    if (cnt === 0) return 0;
+    out[0] = sx / cnt;
+    out[1] = sy / cnt;
+    out[2] = side;
+    return 1;
+  }
+
+  /**
+   * Whether candidate `c` fits slot (i, j) among its known neighbours: opposite saddle
+   * polarity to each known 4-neighbour and a response within the ratio of it; sides
+   * within a factor 3 of the neighbour's other sides along the same axis; and every cell
+   * corner it forms with two known orthogonal neighbours turning the seed's way by at
+   * least about 10° (no fold, no jump into the next row).
+   */
+  function fits(i: number, j: number, c: number): boolean {
+    const cx = X[c]!;
+    const cy = Y[c]!;
+    const nb = [get(i + 1, j), get(i, j + 1), get(i - 1, j), get(i, j - 1)];
+    for (let d = 0; d < 4; d++) {
+      const n = nb[d]!;
+      if (n < 0) continue;
+      if (polarity(cand, n, c) >= 0 || !ratioOk(cand, n, c)) return false;
+      if (!isEdge(S, W, H, X[n]!, Y[n]!, cx, cy)) return false;
+      const len = Math.hypot(X[n]! - cx, Y[n]! - cy);
+      // The neighbour's side beyond it along the same axis.
+      const [di, dj] = AXES[d]!;
+      const f = get(i + 2 * di, j + 2 * dj);
       if (f >= 0) {
-        step[0] = X[f]! - X[m]!;
-        step[1] = Y[f]! - Y[m]!;
-        return true;
+        const l2 = Math.hypot(X[f]! - X[n]!, Y[f]! - Y[n]!);
+        if (len > MAX_SIDE_RATIO * l2 || l2 > MAX_SIDE_RATIO * len) return false;
       }
-      const bk = get(pi - di, pj - dj);
-      if (bk >= 0) {
-        step[0] = X[m]! - X[bk]!;
-        step[1] = Y[m]! - Y[bk]!;
-        return true;
-      }
+      const m = nb[(d + 1) % 4]!;
+      if (m < 0) continue;
+      // nb[d] and nb[d + 1] are a quarter turn apart in index space (+i → +j → −i → −j).
+      const ax = X[n]! - cx;
+      const ay = Y[n]! - cy;
+      const bx = X[m]! - cx;
+      const by = Y[m]! - cy;
+      const cr = ax * by - ay * bx;
+      if (!(orient * cr > MIN_TURN * Math.hypot(ax, ay) * Math.hypot(bx, by))) return false;
     }
-    return false;
-  };
-  let ring = 2;
-  const search = (px: number, py: number, rad: number, from: number, wantOpposite: boolean): number => {
+    return true;
+  }
+
+  /**
+   * The candidate for slot (i, j) near `(px, py)` within `rad`: the nearest one that fits,
+   * provided it is unambiguous (no other fitting candidate within `rad` less than
+   * `AMBIGUITY` times farther). `same` ≥ 0: the slot is two steps from that corner, whose
+   * polarity the candidate must share (a corner stepped over).
+   */
+  function search(i: number, j: number, px: number, py: number, rad: number, ring: number, same: number): number {
     const cell = buckets.cell;
     const cx0 = Math.max(0, Math.floor((px - rad) / cell));
     const cx1 = Math.min(buckets.gw - 1, Math.floor((px + rad) / cell));
     const cy0 = Math.max(0, Math.floor((py - rad) / cell));
     const cy1 = Math.min(buckets.gh - 1, Math.floor((py + rad) / cell));
     let best = -1;
-    let bestD = rad * rad;
+    let d1 = Infinity;
+    let d2 = Infinity;
+    const r2 = rad * rad;
     for (let cy = cy0; cy <= cy1; cy++) {
       for (let cx = cx0; cx <= cx1; cx++) {
-        const c = cy * buckets.gw + cx;
-        for (let q = buckets.start[c]!; q < buckets.start[c + 1]!; q++) {
+        const bc = cy * buckets.gw + cx;
+        for (let q = buckets.start[bc]!; q < buckets.start[bc + 1]!; q++) {
           const id = buckets.items[q]!;
           if (assigned[id] === 1) continue;
-          const d2 = (X[id]! - px) ** 2 + (Y[id]! - py) ** 2;
-          if (!(d2 < bestD)) continue;
-          const pol = polarity(cand, from, id);
-          if (wantOpposite ? pol >= 0 : pol <= 0) continue;
-          if (!ratioOk(cand, from, id)) continue;
+          const e2 = (X[id]! - px) ** 2 + (Y[id]! - py) ** 2;
+          if (!(e2 < r2)) continue;
+          if (same >= 0) {
+            if (polarity(cand, same, id) <= 0 || !ratioOk(cand, same, id)) continue;
+          } else if (!fits(i, j, id)) continue;
           if (!isSymmetric(S, W, H, X[id]!, Y[id]!, ring)) continue;
-          best = id;
-          bestD = d2;
+          const e = Math.sqrt(e2);
+          if (e < d1) {
+            d2 = d1;
+            d1 = e;
+            best = id;
+          } else if (e < d2) d2 = e;
         }
       }
     }
+    if (best >= 0 && d2 < Infinity && d1 > AMBIGUITY * d2) return -1;
     return best;
-  };
-  const dirs: readonly (readonly [number, number])[] = [
-    [1, 0],
-    [-1, 0],
-    [0, 1],
-    [0, -1],
-  ];
-  // Breadth-first growth; repeated sweeps pick up directions whose step became known
-  // later. A sweep that adds nothing leaves the state as it was, so the next would too.
-  for (let sweep = 0; sweep < 6; sweep++) {
+  }
+
+  put(0, 0, s);
+  put(1, 0, cross[0]);
+  put(-1, 0, cross[1]);
+  put(0, 1, cross[2]);
+  put(0, -1, cross[3]);
+  for (let pass = 0; pass < 8; pass++) {
+    // Best-first growth: the slots with the most reliable prediction first.
+    for (let top = heap.pop(); top !== null; top = heap.pop()) {
+      const [pr, i, j] = top;
+      if (get(i, j) >= 0) continue;
+      const key = packKey(i, j);
+      const cur = predict(i, j, pred);
+      if (cur !== pr) continue; // stale entry: a fresher one is queued
+      if ((failed.get(key) ?? 0) >= cur) continue;
+      const side = pred[2]!;
+      if (!(side >= 4)) {
+        failed.set(key, cur);
+        continue;
+      }
+      const c = search(i, j, pred[0]!, pred[1]!, NEIGHBOUR_SEARCH * side, Math.max(2, SYMMETRY_RADIUS * side), -1);
+      if (c >= 0) put(i, j, c);
+      else failed.set(key, cur);
+    }
+    // Step over one missing corner along a lattice line, where the next slot found nothing.
     const before = idx.length;
-    const queue: number[] = Array.from({ length: idx.length }, (_, t) => t);
-    let head = 0;
-    while (head < queue.length) {
-      const t = queue[head++]!;
+    const m = idx.length;
+    for (let t = 0; t < m; t++) {
       const i = ii[t]!;
       const j = jj[t]!;
       const n = idx[t]!;
-      for (const [di, dj] of dirs) {
-        if (get(i + di, j + dj) >= 0) continue;
-        if (!stepAt(i, j, di, dj)) continue;
-        const sx = step[0]!;
-        const sy = step[1]!;
+      for (const [di, dj] of AXES) {
+        const b = get(i - di, j - dj);
+        if (b < 0 || get(i + di, j + dj) >= 0 || get(i + 2 * di, j + 2 * dj) >= 0) continue;
+        const sx = X[n]! - X[b]!;
+        const sy = Y[n]! - Y[b]!;
         const len = Math.hypot(sx, sy);
         if (!(len >= 4)) continue;
-        const rad = SEARCH_FRACTION * len;
-        ring = Math.max(2, SYMMETRY_RADIUS * len);
-        let c = search(X[n]! + sx, Y[n]! + sy, rad, n, true);
-        if (c >= 0) {
-          put(i + di, j + dj, c);
-          queue.push(idx.length - 1);
-          continue;
-        }
-        // Step over one missing corner.
-        if (get(i + 2 * di, j + 2 * dj) >= 0) continue;
-        c = search(X[n]! + 2 * sx, Y[n]! + 2 * sy, rad, n, false);
-        if (c >= 0) {
-          put(i + 2 * di, j + 2 * dj, c);
-          queue.push(idx.length - 1);
-        }
+        const c = search(i + 2 * di, j + 2 * dj, X[n]! + 2 * sx, Y[n]! + 2 * sy, SEARCH_FRACTION * len, Math.max(2, SYMMETRY_RADIUS * len), n);
+        if (c >= 0) put(i + 2 * di, j + 2 * dj, c);
       }
     }
     if (idx.length === before) break;
   }
   return { ii: Int32Array.from(ii), jj: Int32Array.from(jj), idx: Int32Array.from(idx) };
+}
+
+const AXES: readonly (readonly [number, number])[] = [
+  [1, 0],
+  [0, 1],
+  [-1, 0],
+  [0, -1],
+];
+const DIAGONALS: readonly (readonly [number, number])[] = [
+  [1, 1],
+  [-1, 1],
+  [-1, -1],
+  [1, -1],
+];
+const AFFECTED: readonly (readonly [number, number])[] = [...AXES, ...DIAGONALS, [2, 0], [0, 2], [-2, 0], [0, -2]];
+
+/** A max-heap of lattice slots by priority, first in first out among equal priorities. */
+class SlotHeap {
+  private readonly pr: number[] = [];
+  private readonly seq: number[] = [];
+  private readonly si: number[] = [];
+  private readonly sj: number[] = [];
+  private counter = 0;
+  private before(a: number, b: number): boolean {
+    return this.pr[a]! > this.pr[b]! || (this.pr[a] === this.pr[b] && this.seq[a]! < this.seq[b]!);
+  }
+  private swap(a: number, b: number): void {
+    for (const arr of [this.pr, this.seq, this.si, this.sj]) {
+      const t = arr[a]!;
+      arr[a] = arr[b]!;
+      arr[b] = t;
+    }
+  }
+  push(priority: number, i: number, j: number): void {
+    let k = this.pr.length;
+    this.pr.push(priority);
+    this.seq.push(this.counter++);
+    this.si.push(i);
+    this.sj.push(j);
+    while (k > 0) {
+      const p = (k - 1) >> 1;
+      if (!this.before(k, p)) break;
+      this.swap(k, p);
+      k = p;
+    }
+  }
+  pop(): [number, number, number] | null {
+    const n = this.pr.length;
+    if (n === 0) return null;
+    const out: [number, number, number] = [this.pr[0]!, this.si[0]!, this.sj[0]!];
+    this.swap(0, n - 1);
+    this.pr.pop();
+    this.seq.pop();
+    this.si.pop();
+    this.sj.pop();
+    let k = 0;
+    const m = n - 1;
+    for (;;) {
+      const l = 2 * k + 1;
+      const r = l + 1;
+      let b = k;
+      if (l < m && this.before(l, b)) b = l;
+      if (r < m && this.before(r, b)) b = r;
+      if (b === k) break;
+      this.swap(k, b);
+      k = b;
+    }
+    return out;
+  }
+}
+
+/**
+ * Whether the segment from `(ax, ay)` to `(bx, by)` runs along a side of a square: at a
+ * quarter, half and three quarters of the way, the image a fifth of the segment's length
+ * to either side differs with the same sign each time, by at least `EDGE_CONTRAST` of the
+ * spread of the six samples. A segment between corners that are not neighbours (a
+ * diagonal, a knight's move into the next row) crosses squares and fails.
+ */
+function isEdge(S: Float32Array, W: number, H: number, ax: number, ay: number, bx: number, by: number): boolean {
+  const tx = bx - ax;
+  const ty = by - ay;
+  // Normal of length EDGE_OFFSET · |b − a|.
+  const nx = -EDGE_OFFSET * ty;
+  const ny = EDGE_OFFSET * tx;
+  let lo = Infinity;
+  let hi = -Infinity;
+  let dmin = Infinity;
+  let pos = 0;
+  let neg = 0;
+  for (const f of [0.25, 0.5, 0.75]) {
+    const px = ax + f * tx;
+    const py = ay + f * ty;
+    const u = bilinear(S, W, H, px + nx, py + ny);
+    const v = bilinear(S, W, H, px - nx, py - ny);
+    lo = Math.min(lo, u, v);
+    hi = Math.max(hi, u, v);
+    const d = u - v;
+    if (d > 0) pos++;
+    else if (d < 0) neg++;
+    dmin = Math.min(dmin, Math.abs(d));
+  }
+  return (pos === 3 || neg === 3) && dmin >= EDGE_CONTRAST * (hi - lo);
 }
 
 /**

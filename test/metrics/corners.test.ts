@@ -143,6 +143,124 @@ describe('detectCheckerboardCorners with missing corners and distortion', () => 
   }
 });
 
+/**
+ * Index check against the rendered truth, allowing for the detection's origin (its (0, 0)
+ * is the first column and row in which a corner was found): every found corner must sit
+ * within `tol` px of the true corner at its index plus one common offset.
+ */
+function checkIndexing(d: CheckerboardDetection, r: RenderedBoard, tol: number): { offset: [number, number]; maxError: number } {
+  const offs = indexOffsets(d, r);
+  expect(offs.size).toBe(1);
+  const [oi, oj] = [...offs][0]!.split(',').map(Number) as [number, number];
+  let maxError = 0;
+  for (let j = 0; j < d.rows; j++) {
+    for (let i = 0; i < d.columns; i++) {
+      const k = j * d.columns + i;
+      if (!d.found[k]) continue;
+      const t = (j + oj) * r.columns + (i + oi);
+      maxError = Math.max(maxError, Math.hypot(d.points[2 * k]! - r.corners[2 * t]!, d.points[2 * k + 1]! - r.corners[2 * t + 1]!));
+    }
+  }
+  expect(maxError).toBeLessThan(tol);
+  return { offset: [oi, oj], maxError };
+}
+
+describe('detectCheckerboardCorners under strong smooth warps (rendered with known true corners)', () => {
+  // The image-side warp displaces by a·sin(2π(·)/λ + φ): peak displacement a, peak displacement
+  // gradient g = 2πa/λ (a square of side s is stretched or sheared to between (1 − g)s and
+  // (1 + g)s). Squares are 24 px; λ = 120 px is 5 squares, λ = 90 px 3.75 squares.
+  // 'oblique' crosses two such waves at 34° and 124° to the x axis (not separable in x and y).
+  // Edge pixels use 144 sub-samples: indexing is the point here, not the last hundredth of a pixel.
+  const sweep: [string, 'shear' | 'stretch' | 'oblique', number, number][] = [];
+  for (const kind of ['shear', 'stretch', 'oblique'] as const) {
+    for (const amp of [2, 4, 6, 8]) sweep.push([`${kind}, a = ${amp} px, λ = 120 px`, kind, amp, 120]);
+    sweep.push([`${kind}, a = 6 px, λ = 90 px`, kind, 6, 90]);
+  }
+  for (const [name, kind, amp, lam] of sweep) {
+    const g = (2 * Math.PI * amp) / lam;
+    it(`${name} (g = ${g.toFixed(2)}, displacement up to ${(amp / 24).toFixed(2)} square): every corner found at its true index`, () => {
+      const r = renderBoard({ ...base, ss: 144, warp: { amplitude: amp, wavelength: lam, phase: 0.4, kind } });
+      const d = detectCheckerboardCorners(r.image);
+      expect([d.status, d.columns, d.rows, d.count]).toEqual(['ok', 9, 6, 54]);
+      // Paired by index: a corner given a neighbour's index would be ≥ 12 px off.
+      const e = cornerDisplacement(d, truthLattice(r));
+      expect(e.count).toBe(54);
+      expect(e.max).toBeLessThan(0.6);
+    });
+  }
+
+  // Beyond g ≈ 0.5 (and for waves under 3 squares long) corners go missing, but those found keep their true indices.
+  const beyond: [string, 'shear' | 'stretch' | 'oblique', number, number][] = [
+    ['shear, a = 8 px, λ = 90 px', 'shear', 8, 90],
+    ['stretch, a = 8 px, λ = 90 px', 'stretch', 8, 90],
+    ['stretch, a = 10 px, λ = 120 px', 'stretch', 10, 120],
+    ['oblique, a = 10 px, λ = 90 px', 'oblique', 10, 90],
+    ['shear, a = 4 px, λ = 60 px', 'shear', 4, 60],
+    ['oblique, a = 6 px, λ = 60 px', 'oblique', 6, 60],
+    ['stretch, a = 8 px, λ = 60 px', 'stretch', 8, 60],
+  ];
+  for (const [name, kind, amp, lam] of beyond) {
+    const g = (2 * Math.PI * amp) / lam;
+    it(`${name} (g = ${g.toFixed(2)}): corners may be missing, none carries a wrong index`, () => {
+      const r = renderBoard({ ...base, ss: 144, warp: { amplitude: amp, wavelength: lam, phase: 0.4, kind } });
+      const d = detectCheckerboardCorners(r.image);
+      expect(d.status).toBe('ok');
+      expect(d.count).toBeGreaterThanOrEqual(9);
+      expect(d.columns).toBeLessThanOrEqual(9);
+      expect(d.rows).toBeLessThanOrEqual(6);
+      checkIndexing(d, r, 1);
+      let nan = 0;
+      for (let k = 0; k < d.found.length; k++) if (!d.found[k] && Number.isNaN(d.points[2 * k]!)) nan++;
+      expect(nan).toBe(d.columns * d.rows - d.count); // missing corners are reported as missing
+    });
+  }
+
+  it('a larger board (23 × 16 corners) under crossed waves with noise: every corner at its true index', () => {
+    const r = renderBoard({
+      width: 640,
+      height: 480,
+      columns: 23,
+      rows: 16,
+      square: 24,
+      origin: [28.3, 30.7],
+      ss: 89,
+      warp: { amplitude: 10, wavelength: 150, phase: 0.4, kind: 'oblique' },
+      noise: 0.03,
+      seed: 5,
+    });
+    const d = detectCheckerboardCorners(r.image);
+    expect([d.columns, d.rows, d.count]).toEqual([23, 16, 368]);
+    expect(cornerDisplacement(d, truthLattice(r)).max).toBeLessThan(0.6);
+  });
+
+  it('at g = 0.42 the square-size spread and line straightness of the detected corners match those of the true corners', () => {
+    for (const kind of ['stretch', 'oblique'] as const) {
+      const r = renderBoard({ ...base, ss: 144, warp: { amplitude: 8, wavelength: 120, phase: 0.4, kind } });
+      const d = detectCheckerboardCorners(r.image);
+      expect(d.count).toBe(54);
+      const t = truthLattice(r);
+      const sd = squareSizeSpread(d);
+      const st = squareSizeSpread(t);
+      expect(st.all.std).toBeGreaterThan(3); // a strongly distorted board: squares of 24 ± several px
+      // With every index right, the scores differ only through the sub-pixel error ε of the corners
+      // (RMS e.rms): a side changes by at most the error of its two ends, and |std(a) − std(b)| ≤ rms(a − b),
+      // so the spreads differ by at most about 2ε; a line fit's RMS distance likewise moves by at most about ε.
+      // (One corner with a neighbour's index would move a side by a whole square, ≥ 12 px.)
+      const e = cornerDisplacement(d, t);
+      expect(e.rms).toBeLessThan(0.15);
+      expect(Math.abs(sd.all.std - st.all.std)).toBeLessThanOrEqual(2 * e.rms);
+      expect(Math.abs(sd.alongRows.mean - st.alongRows.mean)).toBeLessThanOrEqual(2 * e.rms);
+      const ld = lineStraightness(d);
+      const lt = lineStraightness(t);
+      expect([ld.rows.length, ld.columns.length]).toEqual([6, 9]);
+      expect(Math.abs(ld.rmsDistance - lt.rmsDistance)).toBeLessThanOrEqual(2 * e.rms);
+      // 'stretch' moves corners only along the rows and columns (lines stay straight); 'oblique' bends them far above that error.
+      if (kind === 'oblique') expect(lt.rmsDistance).toBeGreaterThan(10 * e.rms);
+      else expect(lt.rmsDistance).toBeLessThan(1e-9);
+    }
+  });
+});
+
 describe('checkerboard scores on detected corners', () => {
   it('square-size spread is ~0 for a fronto-parallel board and grows with the distortion, as on the true corners', () => {
     const std: number[] = [];

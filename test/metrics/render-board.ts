@@ -42,7 +42,7 @@ export interface BoardSpec {
   /** Plane → image homography, row-major 3×3. @defaultValue identity */
   homography?: number[];
   /** Image-side sinusoidal warp amplitude a (pixels), wavelength λ (pixels), phase φ. */
-  warp?: { amplitude: number; wavelength: number; phase?: number; kind?: 'shear' | 'stretch' };
+  warp?: { amplitude: number; wavelength: number; phase?: number; kind?: 'shear' | 'stretch' | 'oblique'; angle?: number };
   /** Quadratic bend of the rows: py += bend·(px − bendCentre)². */
   bend?: { coefficient: number; centre: number };
   dark?: number;
@@ -94,8 +94,42 @@ export function renderBoard(spec: BoardSpec): RenderedBoard {
   const amp = spec.warp?.amplitude ?? 0;
   const lam = spec.warp?.wavelength ?? 1;
   const phi = spec.warp?.phase ?? 0;
-  // 'shear': u + a sin(2π v/λ + φ), v + a sin(2π u/λ + φ); 'stretch': u + a sin(2π u/λ + φ), v + a sin(2π v/λ + φ).
+  // 'shear': u + a sin(2π v/λ + φ), v + a sin(2π u/λ + φ); 'stretch': u + a sin(2π u/λ + φ), v + a sin(2π v/λ + φ);
+  // 'oblique': two waves along directions θ and θ + 90° (θ = `angle`, default 0.6 rad), each displacing along
+  // its own direction, (u, v) + a Σ_m e_m sin(2π e_m·(u, v)/λ + φ_m), φ_1 = φ, φ_2 = φ + 1.3; not separable in u, v.
   const stretch = spec.warp?.kind === 'stretch';
+  const oblique = spec.warp?.kind === 'oblique';
+  const th = spec.warp?.angle ?? 0.6;
+  const e1 = [Math.cos(th), Math.sin(th)] as const;
+  const e2 = [-Math.sin(th), Math.cos(th)] as const;
+  /** The warp (u, v) → image-side plane point, and its Jacobian, into `o` = [wu, wv, j11, j12, j21, j22]. */
+  const warpAt = (u: number, v: number, o: Float64Array): void => {
+    const k = (2 * Math.PI) / lam;
+    if (oblique) {
+      const s1 = k * (e1[0] * u + e1[1] * v) + phi;
+      const s2 = k * (e2[0] * u + e2[1] * v) + phi + 1.3;
+      const a1 = amp * Math.sin(s1), a2 = amp * Math.sin(s2);
+      const c1 = amp * k * Math.cos(s1), c2 = amp * k * Math.cos(s2);
+      o[0] = u + a1 * e1[0] + a2 * e2[0];
+      o[1] = v + a1 * e1[1] + a2 * e2[1];
+      o[2] = 1 + c1 * e1[0] * e1[0] + c2 * e2[0] * e2[0];
+      o[3] = c1 * e1[0] * e1[1] + c2 * e2[0] * e2[1];
+      o[4] = o[3];
+      o[5] = 1 + c1 * e1[1] * e1[1] + c2 * e2[1] * e2[1];
+      return;
+    }
+    const su = stretch ? u : v;
+    const sv = stretch ? v : u;
+    o[0] = u + amp * Math.sin(k * su + phi);
+    o[1] = v + amp * Math.sin(k * sv + phi);
+    const d1 = amp * k * Math.cos(k * su + phi);
+    const d2 = amp * k * Math.cos(k * sv + phi);
+    o[2] = stretch ? 1 + d1 : 1;
+    o[3] = stretch ? 0 : d1;
+    o[4] = stretch ? 0 : d2;
+    o[5] = stretch ? 1 + d2 : 1;
+  };
+  const wk = new Float64Array(6);
   const kb = spec.bend?.coefficient ?? 0;
   const bc = spec.bend?.centre ?? 0;
   const dark = spec.dark ?? 0.1;
@@ -121,8 +155,9 @@ export function renderBoard(spec: BoardSpec): RenderedBoard {
         return -2 - b;
       }
     }
-    const wu = u + amp * Math.sin((2 * Math.PI * (stretch ? u : v)) / lam + phi);
-    const wv = v + amp * Math.sin((2 * Math.PI * (stretch ? v : u)) / lam + phi);
+    warpAt(u, v, wk);
+    const wu = wk[0]!;
+    const wv = wk[1]!;
     const w = Hi[6]! * wu + Hi[7]! * wv + Hi[8]!;
     const px = (Hi[0]! * wu + Hi[1]! * wv + Hi[2]!) / w;
     const py = (Hi[3]! * wu + Hi[4]! * wv + Hi[5]!) / w;
@@ -181,24 +216,13 @@ export function renderBoard(spec: BoardSpec): RenderedBoard {
       // Solve warp(u, v) = (tx, ty) by Newton's method.
       let u = tx;
       let v = ty;
-      for (let it = 0; it < 50; it++) {
-        const k = (2 * Math.PI) / lam;
-        const su = stretch ? u : v;
-        const sv = stretch ? v : u;
-        const f1 = u + amp * Math.sin(k * su + phi) - tx;
-        const f2 = v + amp * Math.sin(k * sv + phi) - ty;
-        const d1 = amp * k * Math.cos(k * su + phi); // ∂f1/∂u (stretch) or ∂f1/∂v (shear)
-        const d2 = amp * k * Math.cos(k * sv + phi);
-        let du: number;
-        let dv: number;
-        if (stretch) {
-          du = f1 / (1 + d1);
-          dv = f2 / (1 + d2);
-        } else {
-          const det = 1 - d1 * d2;
-          du = (f1 - d1 * f2) / det;
-          dv = (f2 - d2 * f1) / det;
-        }
+      for (let it = 0; it < 100; it++) {
+        warpAt(u, v, wk);
+        const f1 = wk[0]! - tx;
+        const f2 = wk[1]! - ty;
+        const det = wk[2]! * wk[5]! - wk[3]! * wk[4]!;
+        const du = (wk[5]! * f1 - wk[3]! * f2) / det;
+        const dv = (wk[2]! * f2 - wk[4]! * f1) / det;
         u -= du;
         v -= dv;
         if (Math.abs(du) + Math.abs(dv) < 1e-13) break;
