@@ -12,11 +12,13 @@ import { interpolationCode, sampleInto } from './sample.js';
 import type { ImageInterpolation } from './sample.js';
 import type { ResolvedScene } from './scene.js';
 import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
+import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
-import { rasterTriangle } from './raster.js';
+import { rasterTriangle, rasterTriangleSnapped, rasterUnitCell } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
+import { cellEdgeCurvatures, mapSecondDerivatives } from './curvature.js';
 import type { RasterTarget } from './raster.js';
 
 // Status codes as local constants (read once, not through the module namespace in loops).
@@ -39,36 +41,45 @@ export interface CorrectionOptions extends MediumOptions {
   /**
    * `'exact'`: every pixel's ray is traced through the surface (the map is known at every
    * pixel centre and inverted on one-pixel triangles). `'fast'`: rays are traced on a
-   * mesh of `meshStep` pixels and the map is interpolated linearly inside its triangles.
+   * mesh of `meshStep` pixels and the map is interpolated inside its triangles (see
+   * {@link CorrectionOptions.meshInterpolation}).
    * @defaultValue 'exact'
    */
   mode?: CorrectionMode;
   /**
    * Mesh spacing of the fast mode, pixels (an integer ≥ 1; the exact mode uses 1). See
    * {@link CorrectionOptions.meshInterpolation} for the fast map's measured error.
-   * @defaultValue 8
+   * @defaultValue 4
    */
   meshStep?: number;
   /**
-   * How the fast mode interpolates the map inside a mesh cell. `'linear'`: the source
-   * coordinates vary linearly over the cell's two triangles; the error against the exact
-   * map grows as `meshStep² / 8 ×` the map's second derivative (measured on the shipped
-   * scenarios' measured surfaces, 384² images, RMS off folds: tank 0.037 / 0.14 / 0.43 px,
-   * harbour 0.062 / 0.22 / 0.59 px at meshes of 2 / 4 / 8 px). `'cubic'`: two more rays
-   * a vertex, 1/32 px to the right and below, give the map's derivatives there; each cell
-   * holds the bicubic Hermite patch of the forward map (twists from the neighbouring
-   * vertices' derivatives), and every covered pixel off folds refines its linear source
-   * position by Newton's method on that patch. On a smooth map the error then falls as
-   * `meshStep⁴` (analytic two-sinusoid sea, 192²: 0.0011 px at 8 px against 0.075 px
-   * linear); the bicubic (C¹) height grids of the shipped scenarios bend the map at their
-   * cell lines every 6–9 image pixels, which caps the gain there: tank 0.019 / 0.049 /
-   * 0.15 px, harbour 0.037 / 0.099 / 0.33 px at meshes of 2 / 4 / 8 px. Ignored in the
-   * exact mode. It costs two more traced rays a vertex and a Newton solve a pixel (about
-   * twice the linear fast mode's time on the bench's 1024² image); on the shipped seas a
-   * linear 4 px mesh is as accurate for less, on smooth maps the cubic 8 px mesh wins.
-   * @defaultValue 'linear'
+   * How the fast mode interpolates the map inside a mesh cell; the error is the RMS
+   * difference from the exact mode's map off folds, measured on the shipped scenarios'
+   * measured surfaces (384² images) and on the benchmark's 1024² view.
+   *
+   * - `'linear'`: the source coordinates vary linearly over the cell's two triangles; the
+   *   error grows as `meshStep² / 8 ×` the map's second derivative (tank 0.005 / 0.025 px,
+   *   harbour 0.036 / 0.16 px at meshes of 2 / 4 px; benchmark 0.17 px at 8 px).
+   * - `'quadratic'`: the linear source position gets the inverse map's second-order term,
+   *   `½ Σ wᵢ wⱼ · DG·Dᵢⱼ` over the triangle's vertex pairs (`w` barycentric, `DG` the
+   *   triangle's linear inverse, `Dᵢⱼ` the forward map's second difference along the
+   *   source edge, from the neighbouring mesh vertices): no extra rays and a few
+   *   operations a pixel. Tank 0.0035 / 0.0077 / 0.057 px, harbour 0.035 / 0.065 /
+   *   0.38 px at 3 / 4 / 8 px; benchmark 0.005 / 0.036 px at 4 / 8 px; an analytic
+   *   two-sinusoid sea (192²) 0.0055 px at 8 px against 0.075 px linear. For the
+   *   harbour's waves, 0.05 px needs a 3 px mesh.
+   * - `'cubic'`: two more rays a vertex, 1/32 px to the right and below, give the map's
+   *   derivatives there; each cell holds the bicubic Hermite patch of the forward map
+   *   and every covered pixel refines its linear source position by Newton's method on
+   *   it (tank 0.0024 / 0.014 px, harbour 0.055 / 0.16 px at 4 / 8 px; about twice the
+   *   linear mode's time).
+   *
+   * Measured surfaces should be smooth for the higher orders to pay: the pipeline builds
+   * its surface as a C² spline (`interpolation: 'bspline'` of the surface area), whose
+   * normals, and so the map, bend smoothly from cell to cell. Ignored in the exact mode.
+   * @defaultValue 'quadratic'
    */
-  meshInterpolation?: 'cubic' | 'linear';
+  meshInterpolation?: 'cubic' | 'linear' | 'quadratic';
   /** Through what the corrected image is seen: `'flat'` water or `'none'` (no water). @defaultValue 'flat' */
   reference?: CorrectionReference;
   /** Height of the flat reference water level, metres. @defaultValue 0 */
@@ -85,6 +96,13 @@ export interface CorrectionOptions extends MediumOptions {
 export interface CorrectOptions {
   /** Output image to reuse (the distorted image's size and channels). */
   out?: Image;
+  /**
+   * A previous result of the same prepared correction whose buffers (image unless `out`
+   * is given, mask, map and fold mask) are overwritten with this frame's, for video:
+   * fresh multi-megabyte buffers every frame cost more than the work on them. The old
+   * result must not be used afterwards; the returned result shares its buffers.
+   */
+  reuse?: CorrectionResult;
 }
 
 /** Pixels where two parts of the map overlap. */
@@ -180,7 +198,16 @@ function resolveTarget(fn: string, value: unknown): ResolvedScene {
  * {@link FoldReport}.
  *
  * **No source.** Pixels no triangle covers (rays that missed the surface, TIR, beyond the
- * camera's field or the scene plane) have `mask = 0`.
+ * camera's field or the scene plane) have `mask = 0`. A pixel centre exactly on an edge
+ * belongs to the triangle on one side by the tie rule, so where the mesh ends on such a
+ * line (through flat water: the left column and the bottom row) those pixels stay
+ * uncovered.
+ *
+ * **Rasterisation.** The exact mode's edge functions are evaluated in floating point in
+ * a canonical vertex order, so neighbouring triangles agree on shared edges. The fast
+ * mode snaps the vertices to a 1/256-pixel lattice (moving each by at most 1/512 pixel),
+ * which makes its edge functions exact integers stepped along each row, and, for a
+ * one-channel bilinear image, samples each pixel as it is covered.
  *
  * @param camera - The camera model (of the distorted and the corrected image).
  * @param pose - Its pose in the world.
@@ -212,12 +239,14 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   if (H === undefined) rangeError(fn, 'options.height', undefined, 'an image height (the camera has none)');
   if (W < 2 || H < 2) rangeError(fn, 'options.width', `${W}×${H}`, 'an image of at least 2 × 2 pixels');
   let step = 1;
-  if (mode === 'fast') step = o.meshStep === undefined ? 8 : checkInteger(fn, 'options.meshStep', o.meshStep, 1, 1024);
+  if (mode === 'fast') step = o.meshStep === undefined ? 4 : checkInteger(fn, 'options.meshStep', o.meshStep, 1, 1024);
   else if (o.meshStep !== undefined && o.meshStep !== 1) rangeError(fn, 'options.meshStep', o.meshStep, "1 in the exact mode (or mode: 'fast')");
   const reference = o.reference === undefined ? 'flat' : checkOneOf(fn, 'options.reference', o.reference, ['flat', 'none'] as const);
   const level = o.level === undefined ? 0 : checkFinite(fn, 'options.level', o.level);
   const interp = interpolationCode(fn, 'options.interpolation', o.interpolation);
-  const cubic = (o.meshInterpolation === undefined ? 'linear' : checkOneOf(fn, 'options.meshInterpolation', o.meshInterpolation, ['cubic', 'linear'] as const)) === 'cubic' && step > 1;
+  const meshInterp = o.meshInterpolation === undefined ? 'quadratic' : checkOneOf(fn, 'options.meshInterpolation', o.meshInterpolation, ['cubic', 'linear', 'quadratic'] as const);
+  const cubic = meshInterp === 'cubic' && step > 1;
+  const quadratic = meshInterp === 'quadratic' && step > 1;
   if (sc.kind === 0 && !cam.central) rangeError(fn, 'target.type', 'sky', 'a plane target for a non-central (orthographic) camera: all its rays share one direction');
   const medium: MediumOptions = { nWater: o.nWater, nAir: o.nAir, tolerance: o.tolerance };
   if (o.nWater !== undefined) checkPositive(fn, 'options.nWater', o.nWater);
@@ -232,6 +261,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   for (let v = 0; v < H - 1; v += step) rows.push(v);
   rows.push(H - 1);
   const MC = cols.length, MR = rows.length, NV = MC * MR;
+  const colsA = Float64Array.from(cols), rowsA = Float64Array.from(rows);
   const vpix = new Float64Array(2 * NV);
   for (let j = 0; j < MR; j++) {
     for (let i = 0; i < MC; i++) {
@@ -265,6 +295,12 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   const dOk = cubic ? new Uint8Array(NV) : null;
   const coef = cubic ? new Float64Array(32 * (MC - 1) * (MR - 1)) : null;
   const cellOk = cubic ? new Uint8Array((MC - 1) * (MR - 1)) : null;
+  const Fuu = quadratic ? new Float64Array(2 * NV) : null;
+  const Fvv = quadratic ? new Float64Array(2 * NV) : null;
+  const haveD = quadratic ? new Uint8Array(NV) : null;
+  const okV = quadratic ? new Uint8Array(NV) : null;
+  const curv1 = quadratic ? new Float64Array(6) : null;
+  const curv2 = quadratic ? new Float64Array(6) : null;
   // Buffers reused frame after frame.
   const vstat = new Uint8Array(NV);
   const cpts = new Float64Array(3 * NV);
@@ -285,7 +321,21 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     const co = checkOptions(cfn, copts);
     const C = img.channels;
     let out: Image;
-    if (co.out === undefined) out = createImage(W, H, C);
+    let reuse: CorrectionResult | null = null;
+    if (co.reuse !== undefined) {
+      const r = co.reuse as Partial<CorrectionResult> | null;
+      if (r === null || typeof r !== 'object' || !(r.map instanceof Float32Array) || !(r.mask instanceof Uint8Array) || r.folds === undefined || !(r.folds.mask instanceof Uint8Array) || r.image === undefined) {
+        typeError(cfn, 'options.reuse', r, 'a CorrectionResult returned by this prepared correction');
+      }
+      if (r.map.length !== 2 * W * H || r.mask.length !== W * H || r.folds.mask.length !== W * H) {
+        typeError(cfn, 'options.reuse', `a result of ${r.mask.length} pixels`, `a result of this prepared correction (${W}×${H})`);
+      }
+      reuse = r as CorrectionResult;
+    }
+    if (co.out === undefined) {
+      const ri = reuse === null ? null : reuse.image;
+      out = ri !== null && ri.width === W && ri.height === H && ri.channels === C ? ri : createImage(W, H, C);
+    }
     else {
       out = checkImage(cfn, 'options.out', co.out, true);
       if (out.width !== W || out.height !== H || out.channels !== C) typeError(cfn, 'options.out', `${out.width}×${out.height}×${out.channels}`, `an image of ${W}×${H}×${C}`);
@@ -297,31 +347,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     const fl = flatCache.fl;
     const t0 = now();
     const ro = rays.origins, rd = rays.directions, rs = rays.status;
-    let traced = 0;
-    // Warm start along each mesh row: the surface distance extrapolated from the two
-    // previous vertices' hits.
-    let tPrev = NaN, tPrev2 = NaN;
-    for (let k = 0; k < NV; k++) {
-      let st: number = rs[k]!;
-      const a = 3 * k;
-      if (k % MC === 0) tPrev = tPrev2 = NaN;
-      if (st === S_OK) {
-        const guess = tPrev2 === tPrev2 ? 2 * tPrev - tPrev2 : tPrev;
-        st = traceRay(ctx, ro[a]!, ro[a + 1]!, ro[a + 2]!, rd[a]!, rd[a + 1]!, rd[a + 2]!, hit, res, guess);
-        if (st === S_OK || st === S_TIR || st === S_OUTSIDE) {
-          tPrev2 = tPrev;
-          tPrev = hit[0]!;
-        } else tPrev = tPrev2 = NaN;
-        if (tHit !== null) tHit[k] = hit[0]!;
-        if (st === S_OK) st = referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
-      }
-      if (st !== S_OK) {
-        cpts[a] = 0;
-        cpts[a + 1] = 0;
-        cpts[a + 2] = -1; // behind the camera: projects as outside
-      } else traced++;
-      vstat[k] = st;
-    }
+    const traced = traceMesh(ctx, fl, rays.origins, rays.directions, rays.status, MC, tHit, cpts, vstat);
     cam.projectBatch(cpts, { out: outPix, status: projStat });
     let invalidVertices = 0;
     for (let k = 0; k < NV; k++) {
@@ -363,71 +389,42 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
       }
       hermitePatches(cols, rows, outPix, Fu!, Fv!, dOk!, coef!, cellOk!);
     }
-    const t1 = now();
-    const map = new Float32Array(2 * W * H);
-    owner.fill(0);
-    const foldMask = new Uint8Array(W * H);
-    const target: RasterTarget = { width: W, height: H, map, owner, fold: foldMask };
-    let flipped = 0;
-    for (let j = 0; j + 1 < MR; j++) {
-      for (let i = 0; i + 1 < MC; i++) {
-        const ka = j * MC + i, kb = ka + 1, kc = ka + MC, kd = kc + 1;
-        const sa = vstat[ka] === S_OK, sb = vstat[kb] === S_OK, scc = vstat[kc] === S_OK, sd = vstat[kd] === S_OK;
-        const ua = cols[i]!, ub = cols[i + 1]!, va = rows[j]!, vc = rows[j + 1]!;
-        const xa = outPix[2 * ka]!, ya = outPix[2 * ka + 1]!;
-        const xb = outPix[2 * kb]!, yb = outPix[2 * kb + 1]!;
-        const xc = outPix[2 * kc]!, yc = outPix[2 * kc + 1]!;
-        const xd = outPix[2 * kd]!, yd = outPix[2 * kd + 1]!;
-        // Triangle a, b, d (source orientation positive in u-right, v-down pixels).
-        if (sa && sb && sd) {
-          const ar = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
-          const prio = ar > 0 ? 2 : 1;
-          if (ar < 0) flipped++;
-          rasterTriangle(target, prio, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc);
-        }
-        // Triangle a, d, c.
-        if (sa && sd && scc) {
-          const ar = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
-          const prio = ar > 0 ? 2 : 1;
-          if (ar < 0) flipped++;
-          rasterTriangle(target, prio, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc);
-        }
-      }
+    if (quadratic) {
+      for (let k = 0; k < NV; k++) okV![k] = vstat[k] === S_OK ? 1 : 0;
+      mapSecondDerivatives(cols, rows, outPix, okV!, Fuu!, Fvv!, haveD!);
     }
+    const t1 = now();
+    const map = reuse === null ? new Float32Array(2 * W * H) : (reuse.map as Float32Array);
+    owner.fill(0);
+    const foldMask = reuse === null ? new Uint8Array(W * H) : (reuse.folds.mask as Uint8Array).fill(0);
+    // The fast mode samples a one-channel image bilinearly as it rasterises (one pass
+    // over the pixels instead of two); the cubic map is refined first, so it samples after.
+    const fused = step > 1 && !cubic && C === 1 && interp === 1;
+    const target: RasterTarget = { width: W, height: H, map, owner, fold: foldMask, sample: fused ? { source: img.data, out: out.data } : null };
+    const flipped = rasterMesh(target, colsA, rowsA, vstat, outPix, step, Fuu, Fvv, curv1, curv2);
     if (cubic) refineMap(W, H, map, owner, foldMask, step, cols, rows, coef!, cellOk!, 2, 2 * step);
     const t2 = now();
-    const mask = new Uint8Array(W * H);
+    const mask = reuse === null ? new Uint8Array(W * H) : (reuse.mask as Uint8Array);
     const od = out.data, id = img.data;
-    const px = new Float32Array(C);
-    let valid = 0, foldPixels = 0;
-    for (let p = 0; p < W * H; p++) {
-      if (foldMask[p] === 1) foldPixels++;
-      if (owner[p] === 0) {
-        map[2 * p] = NaN;
-        map[2 * p + 1] = NaN;
-        for (let c = 0; c < C; c++) od[p * C + c] = 0;
-        continue;
-      }
-      const u = map[2 * p]!, v = map[2 * p + 1]!;
-      if (C === 1 && interp === 1) {
-        // Inline bilinear for the common one-channel case.
-        let uu = u < 0 ? 0 : u > W - 1 ? W - 1 : u;
-        let vv = v < 0 ? 0 : v > H - 1 ? H - 1 : v;
-        let i = Math.floor(uu), j = Math.floor(vv);
-        if (i > W - 2) i = W - 2;
-        if (j > H - 2) j = H - 2;
-        uu -= i;
-        vv -= j;
-        const k = j * W + i;
-        const a = id[k]! + (id[k + 1]! - id[k]!) * uu;
-        const b = id[k + W]! + (id[k + W + 1]! - id[k + W]!) * uu;
-        od[p] = a + (b - a) * vv;
-      } else {
-        sampleInto(id, W, H, C, u, v, interp, px, 0);
+    let valid = 0;
+    const foldPixels = countOnes(foldMask);
+    if (fused) valid = finishSampled(W * H, owner, map, od, mask);
+    else if (C === 1 && interp === 1) valid = sampleBilinear1(W, H, map, owner, mask, id, od);
+    else {
+      const px = new Float32Array(C);
+      for (let p = 0; p < W * H; p++) {
+        if (owner[p] === 0) {
+          map[2 * p] = NaN;
+          map[2 * p + 1] = NaN;
+          for (let c = 0; c < C; c++) od[p * C + c] = 0;
+          mask[p] = 0;
+          continue;
+        }
+        sampleInto(id, W, H, C, map[2 * p]!, map[2 * p + 1]!, interp, px, 0);
         for (let c = 0; c < C; c++) od[p * C + c] = px[c]!;
+        mask[p] = 1;
+        valid++;
       }
-      mask[p] = 1;
-      valid++;
     }
     const t3 = now();
     const warnings: string[] = [];
@@ -447,6 +444,176 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   };
 
   return { width: W, height: H, mode, meshStep: step, meshSize: [MC, MR], correct };
+}
+
+/**
+ * Trace the mesh's rays through the surface to the scene and their reference points
+ * (camera-frame points to project) into `cpts`, statuses into `vstat`; rays without a
+ * path get a point behind the camera. Each ray starts its surface search from the
+ * distance extrapolated from the two previous vertices' hits along its mesh row.
+ * Returns the rays traced.
+ */
+function traceMesh(
+  ctx: TraceContext,
+  fl: FlatContext,
+  ro: Float64Array,
+  rd: Float64Array,
+  rs: Uint8Array,
+  MC: number,
+  tHit: Float64Array | null,
+  cpts: Float64Array,
+  vstat: Uint8Array,
+): number {
+  const hit = new Float64Array(6);
+  const res = new Float64Array(6);
+  const NV = vstat.length;
+  let traced = 0;
+  let tPrev = NaN, tPrev2 = NaN;
+  for (let k = 0; k < NV; k++) {
+    let st: number = rs[k]!;
+    const a = 3 * k;
+    if (k % MC === 0) tPrev = tPrev2 = NaN;
+    if (st === S_OK) {
+      const guess = tPrev2 === tPrev2 ? 2 * tPrev - tPrev2 : tPrev;
+      st = traceRay(ctx, ro[a]!, ro[a + 1]!, ro[a + 2]!, rd[a]!, rd[a + 1]!, rd[a + 2]!, hit, res, guess);
+      if (st === S_OK || st === S_TIR || st === S_OUTSIDE) {
+        tPrev2 = tPrev;
+        tPrev = hit[0]!;
+      } else tPrev = tPrev2 = NaN;
+      if (tHit !== null) tHit[k] = hit[0]!;
+      if (st === S_OK) st = referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
+    }
+    if (st !== S_OK) {
+      cpts[a] = 0;
+      cpts[a + 1] = 0;
+      cpts[a + 2] = -1; // behind the camera: projects as outside
+    } else traced++;
+    vstat[k] = st;
+  }
+  return traced;
+}
+
+/**
+ * Rasterise the mesh's triangles (two a cell, (a, b, d) and (a, d, c)) into `target`:
+ * one-pixel cells of the exact mode together, larger ones triangle by triangle on the
+ * snapped lattice, with the quadratic term when `Fuu` is given. Returns the flipped
+ * triangles.
+ */
+function rasterMesh(
+  target: RasterTarget,
+  cols: Float64Array,
+  rows: Float64Array,
+  vstat: Uint8Array,
+  outPix: Float64Array,
+  step: number,
+  Fuu: Float64Array | null,
+  Fvv: Float64Array | null,
+  curv1: Float64Array | null,
+  curv2: Float64Array | null,
+): number {
+  const MC = cols.length, MR = rows.length;
+  let flipped = 0;
+  const quadratic = Fuu !== null && Fvv !== null && curv1 !== null && curv2 !== null;
+  for (let j = 0; j + 1 < MR; j++) {
+    const va = rows[j]!, vc = rows[j + 1]!;
+    for (let i = 0; i + 1 < MC; i++) {
+      const ka = j * MC + i, kb = ka + 1, kc = ka + MC, kd = kc + 1;
+      const sa = vstat[ka] === S_OK, sb = vstat[kb] === S_OK, scc = vstat[kc] === S_OK, sd = vstat[kd] === S_OK;
+      const ua = cols[i]!, ub = cols[i + 1]!;
+      const xa = outPix[2 * ka]!, ya = outPix[2 * ka + 1]!;
+      const xb = outPix[2 * kb]!, yb = outPix[2 * kb + 1]!;
+      const xc = outPix[2 * kc]!, yc = outPix[2 * kc + 1]!;
+      const xd = outPix[2 * kd]!, yd = outPix[2 * kd + 1]!;
+      if (step === 1) {
+        if (sa && sb && scc && sd) {
+          flipped += rasterUnitCell(target, ua, va, xa, ya, xb, yb, xc, yc, xd, yd);
+          continue;
+        }
+        if (sa && sb && sd) {
+          const ar = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
+          if (ar < 0) flipped++;
+          rasterTriangle(target, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc);
+        }
+        if (sa && sd && scc) {
+          const ar = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
+          if (ar < 0) flipped++;
+          rasterTriangle(target, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc);
+        }
+        continue;
+      }
+      if (quadratic) cellEdgeCurvatures(outPix, Fuu, Fvv, ka, kb, kc, kd, ub - ua, vc - va, curv1, curv2, sa && sb && scc && sd);
+      // Triangle a, b, d (source orientation positive in u-right, v-down pixels).
+      if (sa && sb && sd) {
+        const ar = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
+        if (ar < 0) flipped++;
+        rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc, quadratic ? curv1 : null);
+      }
+      // Triangle a, d, c.
+      if (sa && sd && scc) {
+        const ar = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
+        if (ar < 0) flipped++;
+        rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc, quadratic ? curv2 : null);
+      }
+    }
+  }
+  return flipped;
+}
+
+/** Number of ones in a 0/1 mask. */
+function countOnes(m: Uint8Array): number {
+  let c = 0;
+  for (let p = 0; p < m.length; p++) c += m[p]!;
+  return c;
+}
+
+/** After a sampling rasterisation: mask the pixels no triangle covered. Returns the covered pixels. */
+function finishSampled(n: number, owner: Uint8Array, map: Float32Array, od: Float32Array, mask: Uint8Array): number {
+  let valid = 0;
+  for (let p = 0; p < n; p++) {
+    if (owner[p] === 0) {
+      map[2 * p] = NaN;
+      map[2 * p + 1] = NaN;
+      od[p] = 0;
+      mask[p] = 0;
+    } else {
+      mask[p] = 1;
+      valid++;
+    }
+  }
+  return valid;
+}
+
+/**
+ * The corrected image for one channel, bilinear: each covered pixel samples the distorted
+ * image at its source position (clamped to the image); uncovered pixels get 0, a NaN map
+ * and mask 0. Returns the covered pixels.
+ */
+function sampleBilinear1(W: number, H: number, map: Float32Array, owner: Uint8Array, mask: Uint8Array, id: Float32Array, od: Float32Array): number {
+  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2, n = W * H;
+  let valid = 0;
+  for (let p = 0; p < n; p++) {
+    if (owner[p] === 0) {
+      map[2 * p] = NaN;
+      map[2 * p + 1] = NaN;
+      od[p] = 0;
+      mask[p] = 0;
+      continue;
+    }
+    const u = map[2 * p]!, v = map[2 * p + 1]!;
+    const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
+    const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
+    let i = uu | 0, j = vv | 0;
+    if (i > Wm2) i = Wm2;
+    if (j > Hm2) j = Hm2;
+    const fu = uu - i, fv = vv - j;
+    const k = j * W + i;
+    const a0 = id[k]!, a1 = id[k + 1]!, b0 = id[k + W]!, b1 = id[k + W + 1]!;
+    const a = a0 + (a1 - a0) * fu;
+    od[p] = a + (b0 + (b1 - b0) * fu - a) * fv;
+    mask[p] = 1;
+    valid++;
+  }
+  return valid;
 }
 
 /**

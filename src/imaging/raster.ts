@@ -15,6 +15,12 @@ export interface RasterTarget {
   readonly owner: Uint8Array;
   /** 1 where more than one triangle covered the pixel. */
   readonly fold: Uint8Array;
+  /**
+   * One-channel source image to sample bilinearly as each pixel is written (its source
+   * position clamped to the image), with `out` receiving the sample; used by the snapped
+   * rasteriser only. The width and height are the target's.
+   */
+  readonly sample?: { readonly source: Float32Array; readonly out: Float32Array } | null;
 }
 
 // Edge function of the directed edge a → b at p, computed in a canonical endpoint order
@@ -44,21 +50,39 @@ function inside(x0: number, y0: number, x1: number, y1: number, x2: number, y2: 
  * @internal Rasterise one triangle (output vertices x, y; source coordinates su, sv) at
  * priority `prio` into `t`. Pixel centres (integers) inside the triangle are covered;
  * pixels on an edge follow the tie rule. Returns the pixels covered.
+ *
+ * `curv`, when given, holds the forward map's second differences along the triangle's
+ * three source edges, `D = aᵀ·D²F·a` for the source edge vectors `a` of the vertex pairs
+ * (0, 1), (1, 2), (0, 2), as output-pixel vectors (`x y` each, six numbers). The source
+ * position then gets the quadratic term of the inverse map: for an inverse `G` that is
+ * quadratic over the triangle, `G = Σ wᵢ Gᵢ − ½ Σ_{i<j} wᵢ wⱼ eᵢⱼᵀ·D²G·eᵢⱼ` (barycentric
+ * `w`, output edges `e`), and differentiating `G(F(s)) = s` twice gives
+ * `D²G[DF a, DF a] = −DG·D²F[a, a]`, so the term is `+½ Σ wᵢ wⱼ · DG·Dᵢⱼ` with `DG` the
+ * triangle's linear inverse. It lowers the interpolation error from second to third
+ * order in the mesh size.
  */
 export function rasterTriangle(
   t: RasterTarget,
   prio: number,
   x0: number, y0: number, x1: number, y1: number, x2: number, y2: number,
   su0: number, sv0: number, su1: number, sv1: number, su2: number, sv2: number,
+  curv: Float64Array | null = null,
 ): number {
   let area = (x1 - x0) * (y2 - y0) - (y1 - y0) * (x2 - x0);
   if (!(area !== 0) || !Number.isFinite(area)) return 0;
+  // Second differences of the pairs (0, 1), (1, 2), (0, 2).
+  let d01x = 0, d01y = 0, d12x = 0, d12y = 0, d02x = 0, d02y = 0;
+  if (curv !== null) {
+    d01x = curv[0]!; d01y = curv[1]!; d12x = curv[2]!; d12y = curv[3]!; d02x = curv[4]!; d02y = curv[5]!;
+  }
   if (area < 0) {
-    // Normalise the winding: swap vertices 1 and 2.
+    // Normalise the winding: swap vertices 1 and 2 (pairs (0, 1) and (0, 2) trade places).
     let w = x1; x1 = x2; x2 = w;
     w = y1; y1 = y2; y2 = w;
     w = su1; su1 = su2; su2 = w;
     w = sv1; sv1 = sv2; sv2 = w;
+    w = d01x; d01x = d02x; d02x = w;
+    w = d01y; d01y = d02y; d02y = w;
     area = -area;
   }
   const W = t.width, H = t.height;
@@ -72,8 +96,8 @@ export function rasterTriangle(
   const { map, owner, fold } = t;
   if (maxX - minX <= 1 && maxY - minY <= 1) {
     // A small triangle (the exact mode's one-pixel mesh): test its few pixels directly.
-    let covered = 0;
     const inv = 1 / area;
+    let covered = 0;
     for (let py = minY; py <= maxY; py++) {
       for (let px = minX; px <= maxX; px++) {
         if (!inside(x0, y0, x1, y1, x2, y2, px, py)) continue;
@@ -85,8 +109,18 @@ export function rasterTriangle(
         if (ow !== 0) fold[p] = 1;
         if (prio > ow) {
           owner[p] = prio;
-          map[2 * p] = w0 * su0 + w1 * su1 + w2 * su2;
-          map[2 * p + 1] = w0 * sv0 + w1 * sv1 + w2 * sv2;
+          let u = w0 * su0 + w1 * su1 + w2 * su2, v = w0 * sv0 + w1 * sv1 + w2 * sv2;
+          if (curv !== null) {
+            // The quadratic term (see above) with the triangle's linear inverse.
+            const e1x = x1 - x0, e1y = y1 - y0, e2x = x2 - x0, e2y = y2 - y0;
+            const au = ((su1 - su0) * e2y - (su2 - su0) * e1y) * inv, bu = ((su2 - su0) * e1x - (su1 - su0) * e2x) * inv;
+            const av = ((sv1 - sv0) * e2y - (sv2 - sv0) * e1y) * inv, bv = ((sv2 - sv0) * e1x - (sv1 - sv0) * e2x) * inv;
+            const a = 0.5 * w0 * w1, b = 0.5 * w1 * w2, c = 0.5 * w0 * w2;
+            u += a * (au * d01x + bu * d01y) + b * (au * d12x + bu * d12y) + c * (au * d02x + bu * d02y);
+            v += a * (av * d01x + bv * d01y) + b * (av * d12x + bv * d12y) + c * (av * d02x + bv * d02y);
+          }
+          map[2 * p] = u;
+          map[2 * p + 1] = v;
         }
         covered++;
       }
@@ -100,6 +134,13 @@ export function rasterTriangle(
   const au = (du1 * e2y - du2 * e1y) * inv, bu = (du2 * e1x - du1 * e2x) * inv;
   const av = (dv1 * e2y - dv2 * e1y) * inv, bv = (dv2 * e1x - dv1 * e2x) * inv;
   const cu = su0 - au * x0 - bu * y0, cv = sv0 - av * x0 - bv * y0;
+  // Quadratic term: ½·DG·D for each pair, DG = [[au, bu], [av, bv]].
+  const quad = curv !== null;
+  const k01u = 0.5 * (au * d01x + bu * d01y), k01v = 0.5 * (av * d01x + bv * d01y);
+  const k12u = 0.5 * (au * d12x + bu * d12y), k12v = 0.5 * (av * d12x + bv * d12y);
+  const k02u = 0.5 * (au * d02x + bu * d02y), k02v = 0.5 * (av * d02x + bv * d02y);
+  // Barycentric weights w0 (opposite vertex 0) and w1 along a row: w(px) = w(0) + px·dw.
+  const dw0 = -(y2 - y1) * inv, dw1 = -(y0 - y2) * inv;
   let covered = 0;
   for (let py = minY; py <= maxY; py++) {
     // Span of the row from the three half-planes w_e(px) = A·px + B ≥ 0.
@@ -129,19 +170,265 @@ export function rasterTriangle(
     const row = py * W;
     let u = au * lo + bu * py + cu;
     let v = av * lo + bv * py + cv;
+    if (quad) {
+      let w0 = ((x2 - x1) * (py - y1) - (y2 - y1) * (lo - x1)) * inv;
+      let w1 = ((x0 - x2) * (py - y2) - (y0 - y2) * (lo - x2)) * inv;
+      for (let px = lo; px <= hi; px++) {
+        const p = row + px;
+        const ow = owner[p]!;
+        if (ow !== 0) fold[p] = 1;
+        if (prio > ow) {
+          const w2 = 1 - w0 - w1, a = w0 * w1, b = w1 * w2, c = w0 * w2;
+          owner[p] = prio;
+          map[2 * p] = u + a * k01u + b * k12u + c * k02u;
+          map[2 * p + 1] = v + a * k01v + b * k12v + c * k02v;
+        }
+        u += au;
+        v += av;
+        w0 += dw0;
+        w1 += dw1;
+      }
+    } else {
+      for (let px = lo; px <= hi; px++) {
+        const p = row + px;
+        const ow = owner[p]!;
+        if (ow !== 0) fold[p] = 1;
+        if (prio > ow) {
+          owner[p] = prio;
+          map[2 * p] = u;
+          map[2 * p + 1] = v;
+        }
+        u += au;
+        v += av;
+      }
+    }
+    covered += hi - lo + 1;
+  }
+  return covered;
+}
+
+/** Sub-pixel resolution of the snapped rasteriser: vertices on a 1/256-pixel lattice. */
+const SNAP = 256;
+/** Largest vertex coordinate, pixels, for which the snapped edge functions stay exact integers (< 2⁵³). */
+const SNAP_LIMIT = 32768;
+
+/**
+ * @internal The fast mode's rasteriser: as {@link rasterTriangle}, with the vertices
+ * snapped to a 1/256-pixel lattice so that the edge functions at pixel centres are exact
+ * integers, evaluated once a row and stepped by integers along it. Coverage then follows
+ * the tie rule exactly with no per-pixel tests; the snap moves a triangle's corners by at
+ * most 1/512 pixel. Triangles with a vertex beyond ±32768 pixels go to
+ * {@link rasterTriangle}.
+ */
+export function rasterTriangleSnapped(
+  t: RasterTarget,
+  prio: number,
+  x0: number, y0: number, x1: number, y1: number, x2: number, y2: number,
+  su0: number, sv0: number, su1: number, sv1: number, su2: number, sv2: number,
+  curv: Float64Array | null = null,
+): number {
+  if (!(Math.abs(x0) < SNAP_LIMIT && Math.abs(y0) < SNAP_LIMIT && Math.abs(x1) < SNAP_LIMIT && Math.abs(y1) < SNAP_LIMIT && Math.abs(x2) < SNAP_LIMIT && Math.abs(y2) < SNAP_LIMIT)) {
+    return Number.isFinite(x0 + y0 + x1 + y1 + x2 + y2) ? rasterTriangle(t, prio, x0, y0, x1, y1, x2, y2, su0, sv0, su1, sv1, su2, sv2, curv) : 0;
+  }
+  let X0 = Math.round(x0 * SNAP), Y0 = Math.round(y0 * SNAP);
+  let X1 = Math.round(x1 * SNAP), Y1 = Math.round(y1 * SNAP);
+  let X2 = Math.round(x2 * SNAP), Y2 = Math.round(y2 * SNAP);
+  let area = (X1 - X0) * (Y2 - Y0) - (Y1 - Y0) * (X2 - X0);
+  if (area === 0) return 0;
+  let d01x = 0, d01y = 0, d12x = 0, d12y = 0, d02x = 0, d02y = 0;
+  if (curv !== null) {
+    d01x = curv[0]!; d01y = curv[1]!; d12x = curv[2]!; d12y = curv[3]!; d02x = curv[4]!; d02y = curv[5]!;
+  }
+  if (area < 0) {
+    let w = X1; X1 = X2; X2 = w;
+    w = Y1; Y1 = Y2; Y2 = w;
+    w = su1; su1 = su2; su2 = w;
+    w = sv1; sv1 = sv2; sv2 = w;
+    w = d01x; d01x = d02x; d02x = w;
+    w = d01y; d01y = d02y; d02y = w;
+    area = -area;
+  }
+  const W = t.width, H = t.height;
+  let minX = Math.ceil(Math.min(X0, X1, X2) / SNAP), maxX = Math.floor(Math.max(X0, X1, X2) / SNAP);
+  let minY = Math.ceil(Math.min(Y0, Y1, Y2) / SNAP), maxY = Math.floor(Math.max(Y0, Y1, Y2) / SNAP);
+  if (minX < 0) minX = 0;
+  if (minY < 0) minY = 0;
+  if (maxX > W - 1) maxX = W - 1;
+  if (maxY > H - 1) maxY = H - 1;
+  if (minX > maxX || minY > maxY) return 0;
+  const { map, owner, fold } = t;
+  // Source coordinates as planes over the snapped triangle, in pixels.
+  const inv = (SNAP * SNAP) / area;
+  const e1x = (X1 - X0) / SNAP, e1y = (Y1 - Y0) / SNAP, e2x = (X2 - X0) / SNAP, e2y = (Y2 - Y0) / SNAP;
+  const du1 = su1 - su0, du2 = su2 - su0, dv1 = sv1 - sv0, dv2 = sv2 - sv0;
+  const au = (du1 * e2y - du2 * e1y) * inv, bu = (du2 * e1x - du1 * e2x) * inv;
+  const av = (dv1 * e2y - dv2 * e1y) * inv, bv = (dv2 * e1x - dv1 * e2x) * inv;
+  const sx0 = X0 / SNAP, sy0 = Y0 / SNAP;
+  const cu = su0 - au * sx0 - bu * sy0, cv = sv0 - av * sx0 - bv * sy0;
+  const quad = curv !== null;
+  const k01u = 0.5 * (au * d01x + bu * d01y), k01v = 0.5 * (av * d01x + bv * d01y);
+  const k12u = 0.5 * (au * d12x + bu * d12y), k12v = 0.5 * (av * d12x + bv * d12y);
+  const k02u = 0.5 * (au * d02x + bu * d02y), k02v = 0.5 * (av * d02x + bv * d02y);
+  // Edge e from a to b: E(px, py) = (Xb − Xa)(S·py − Ya) − (Yb − Ya)(S·px − Xa), integer.
+  // Per row E = C + A·px with A = −S·(Yb − Ya), and C grows by S·(Xb − Xa) a row. Inside:
+  // E ≥ m with m = 0, or 1 where the edge does not own its ties (the rule of `owns`). The
+  // span's end from an edge is the root of C + A·x = m, estimated in floating point and
+  // settled by the exact integer test.
+  const A0 = -SNAP * (Y2 - Y1), A1 = -SNAP * (Y0 - Y2), A2 = -SNAP * (Y1 - Y0);
+  const m0 = Y2 - Y1 > 0 || (Y2 === Y1 && X2 > X1) ? 0 : 1;
+  const m1 = Y0 - Y2 > 0 || (Y0 === Y2 && X0 > X2) ? 0 : 1;
+  const m2 = Y1 - Y0 > 0 || (Y1 === Y0 && X1 > X0) ? 0 : 1;
+  const r0 = A0 !== 0 ? 1 / A0 : 0, r1 = A1 !== 0 ? 1 / A1 : 0, r2 = A2 !== 0 ? 1 / A2 : 0;
+  const PY0 = SNAP * minY;
+  let C0 = (X2 - X1) * (PY0 - Y1) + (Y2 - Y1) * X1;
+  let C1 = (X0 - X2) * (PY0 - Y2) + (Y0 - Y2) * X2;
+  let C2 = (X1 - X0) * (PY0 - Y0) + (Y1 - Y0) * X0;
+  const dC0 = SNAP * (X2 - X1), dC1 = SNAP * (X0 - X2), dC2 = SNAP * (X1 - X0);
+  const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
+  const dw0 = A0 * iA, dw1 = A1 * iA;
+  const smp = t.sample ?? null;
+  const src = smp !== null ? smp.source : null, od = smp !== null ? smp.out : null;
+  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2;
+  let covered = 0;
+  for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
+    let lo = minX, hi = maxX;
+    if (A0 > 0) { let x = Math.ceil((m0 - C0) * r0); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
+    else if (A0 < 0) { let x = Math.floor((m0 - C0) * r0); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
+    else if (C0 < m0) continue;
+    if (A1 > 0) { let x = Math.ceil((m1 - C1) * r1); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
+    else if (A1 < 0) { let x = Math.floor((m1 - C1) * r1); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
+    else if (C1 < m1) continue;
+    if (A2 > 0) { let x = Math.ceil((m2 - C2) * r2); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
+    else if (A2 < 0) { let x = Math.floor((m2 - C2) * r2); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
+    else if (C2 < m2) continue;
+    if (lo > hi) continue;
+    const row = py * W;
+    let u = au * lo + bu * py + cu;
+    let v = av * lo + bv * py + cv;
+    let w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA;
     for (let px = lo; px <= hi; px++) {
       const p = row + px;
       const ow = owner[p]!;
       if (ow !== 0) fold[p] = 1;
       if (prio > ow) {
         owner[p] = prio;
-        map[2 * p] = u;
-        map[2 * p + 1] = v;
+        let su = u, sv = v;
+        if (quad) {
+          const w2 = 1 - w0 - w1, a = w0 * w1, b = w1 * w2, c = w0 * w2;
+          su += a * k01u + b * k12u + c * k02u;
+          sv += a * k01v + b * k12v + c * k02v;
+        }
+        map[2 * p] = su;
+        map[2 * p + 1] = sv;
+        if (src !== null) {
+          const uu = su > 0 ? (su < Wm ? su : Wm) : 0;
+          const vv = sv > 0 ? (sv < Hm ? sv : Hm) : 0;
+          let i = uu | 0, j = vv | 0;
+          if (i > Wm2) i = Wm2;
+          if (j > Hm2) j = Hm2;
+          const fu = uu - i, fv = vv - j;
+          const k = j * W + i;
+          const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
+          const s0 = a0 + (a1 - a0) * fu;
+          od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+        }
       }
       u += au;
       v += av;
+      w0 += dw0;
+      w1 += dw1;
     }
     covered += hi - lo + 1;
   }
   return covered;
+}
+
+// Coverage of a pixel by a triangle edge with value `e` (canonical `edge` of a → b), for
+// a triangle of orientation `sg` (±1): the same decision as `inside` after the winding
+// is normalised (a flipped triangle tests the reversed edges).
+function covers(e: number, sg: number, ax: number, ay: number, bx: number, by: number): boolean {
+  const v = sg * e;
+  return v > 0 || (v === 0 && (sg > 0 ? owns(ax, ay, bx, by) : owns(bx, by, ax, ay)));
+}
+
+/**
+ * @internal The exact mode's inverse on one mesh cell of one-pixel size whose four
+ * corners all have the map: the cell's triangles (a, b, d) and (a, d, c) (a top left,
+ * b top right, c bottom left, d bottom right; output positions x, y; source u₀ … u₀ + 1,
+ * v₀ … v₀ + 1) rasterised together over their common bounding box, with the same
+ * coverage, tie rule, priorities and interpolation as {@link rasterTriangle} gives
+ * them one at a time. Returns the flipped triangles (0, 1 or 2).
+ */
+export function rasterUnitCell(
+  t: RasterTarget,
+  u0: number, v0: number,
+  xa: number, ya: number, xb: number, yb: number, xc: number, yc: number, xd: number, yd: number,
+): number {
+  const area1 = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
+  const area2 = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
+  const flipped = (area1 < 0 ? 1 : 0) + (area2 < 0 ? 1 : 0);
+  const ok1 = area1 !== 0 && Number.isFinite(area1), ok2 = area2 !== 0 && Number.isFinite(area2);
+  if (!ok1 && !ok2) return flipped;
+  const W = t.width, H = t.height;
+  let minX = Math.ceil(Math.min(Math.min(xa, xb), Math.min(xc, xd))), maxX = Math.floor(Math.max(Math.max(xa, xb), Math.max(xc, xd)));
+  let minY = Math.ceil(Math.min(Math.min(ya, yb), Math.min(yc, yd))), maxY = Math.floor(Math.max(Math.max(ya, yb), Math.max(yc, yd)));
+  if (minX < 0) minX = 0;
+  if (minY < 0) minY = 0;
+  if (maxX > W - 1) maxX = W - 1;
+  if (maxY > H - 1) maxY = H - 1;
+  if (minX > maxX || minY > maxY) return flipped;
+  if ((maxX - minX + 1) * (maxY - minY + 1) > 16) {
+    // A stretched cell: the per-triangle scan is cheaper than testing its whole box.
+    if (ok1) rasterTriangle(t, area1 > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, u0, v0, u0 + 1, v0, u0 + 1, v0 + 1);
+    if (ok2) rasterTriangle(t, area2 > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, u0, v0, u0 + 1, v0 + 1, u0, v0 + 1);
+    return flipped;
+  }
+  const { map, owner, fold } = t;
+  const s1 = area1 > 0 ? 1 : -1, s2 = area2 > 0 ? 1 : -1;
+  const p1 = area1 > 0 ? 2 : 1, p2 = area2 > 0 ? 2 : 1;
+  const i1 = 1 / area1, i2 = 1 / area2;
+  for (let py = minY; py <= maxY; py++) {
+    for (let px = minX; px <= maxX; px++) {
+      const ead = edge(xa, ya, xd, yd, px, py);
+      // Triangle (a, b, d): edges a → b, b → d, d → a (= −ead).
+      if (ok1) {
+        const eab = edge(xa, ya, xb, yb, px, py);
+        if (covers(eab, s1, xa, ya, xb, yb)) {
+          const ebd = edge(xb, yb, xd, yd, px, py);
+          if (covers(ebd, s1, xb, yb, xd, yd) && covers(-ead, s1, xd, yd, xa, ya)) {
+            const p = py * W + px;
+            const ow = owner[p]!;
+            if (ow !== 0) fold[p] = 1;
+            if (p1 > ow) {
+              owner[p] = p1;
+              // Weights: a ← ebd, b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
+              const wb = -ead * i1, wd = eab * i1;
+              map[2 * p] = u0 + wb + wd;
+              map[2 * p + 1] = v0 + wd;
+            }
+          }
+        }
+      }
+      // Triangle (a, d, c): edges a → d, d → c, c → a.
+      if (ok2 && covers(ead, s2, xa, ya, xd, yd)) {
+        const edc = edge(xd, yd, xc, yc, px, py);
+        if (covers(edc, s2, xd, yd, xc, yc)) {
+          const eca = edge(xc, yc, xa, ya, px, py);
+          if (covers(eca, s2, xc, yc, xa, ya)) {
+            const p = py * W + px;
+            const ow = owner[p]!;
+            if (ow !== 0) fold[p] = 1;
+            if (p2 > ow) {
+              owner[p] = p2;
+              // Weights: a ← edc, d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
+              const wd = eca * i2, wc = ead * i2;
+              map[2 * p] = u0 + wd;
+              map[2 * p + 1] = v0 + wd + wc;
+            }
+          }
+        }
+      }
+    }
+  }
+  return flipped;
 }

@@ -60,9 +60,9 @@ export function harbourScenario(): Scenario {
 export function tankScenario(): Scenario {
   return {
     name: 'tank',
-    description: 'An invented 0.6 m deep wind-wave flume: a camera 0.35 m down looks up through fan-driven ripples at a checkerboard 0.6 m above the water; a lamp 1 m up and 0.8 m to the side is the slope sensor\'s guide light.',
+    description: 'An invented 0.6 m deep wind-wave flume: a camera 0.35 m down looks up through fan-driven ripples (4 cm and longer, which the sensor\'s 1 cm pitch resolves) at a checkerboard 0.6 m above the water; a lamp 1 m up and 0.8 m to the side is the slope sensor\'s guide light. The image is corrected to the view without water, where the board is a perfect grid.',
     water: { nWater: 1.333, nAir: 1.000293 },
-    sea: { peakPeriod: 0.5, significantHeight: 0.003, gamma: 3.3, spreadingS: 4, meanDirectionDeg: 0, depth: 0.6, gridSize: 256, gridSpacing: 0.006, seed: 5, time: 0 },
+    sea: { peakPeriod: 0.5, significantHeight: 0.003, gamma: 3.3, spreadingS: 4, meanDirectionDeg: 0, depth: 0.6, gridSize: 256, gridSpacing: 0.02, seed: 5, time: 0 },
     light: { type: 'point', position: [0.8, 0, 1.0], radius: 0.005 },
     sensor: {
       lattice: 'square',
@@ -80,6 +80,6 @@ export function tankScenario(): Scenario {
     },
     camera: { width: 384, height: 384, fovDeg: 36, z: -0.35, position: [0, 0], supersample: 2 },
     target: { type: 'checkerboard', z: 0.6, squareSize: 0.025, columns: 16, rows: 16, pixelsPerSquare: 16 },
-    correction: { mode: 'exact', meshStep: 8, reference: 'flat' },
+    correction: { mode: 'exact', meshStep: 8, reference: 'none' },
   };
 }

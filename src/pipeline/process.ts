@@ -249,7 +249,7 @@ export function preparePipeline(setup: PipelineSetup, options?: PipelineOptions)
     const rec = m.reconstruction;
     if (rec !== null) {
       surfaceHeight = subdivision === 1 || rec.height.width < 3 || rec.height.height < 3 ? rec.height : finerHeights(rec, subdivision, smoothness, tolerance);
-      surface = createGridSurface(surfaceHeight);
+      surface = createGridSurface(surfaceHeight, { interpolation: 'bspline' });
     }
     const t2 = now();
     if (surface !== null) {

@@ -1,7 +1,7 @@
 /**
- * A height field sampled on a `Grid`, interpolated bilinearly or by bicubic cubic
- * convolution (Keys 1981, a = −1/2: C¹, third-order accurate), with the analytic
- * gradient of the interpolant.
+ * A height field sampled on a `Grid`, interpolated bilinearly, by bicubic cubic
+ * convolution (Keys 1981, a = −1/2: C¹, third-order accurate) or by the natural cubic
+ * spline (C², fourth-order accurate), with the analytic gradient of the interpolant.
  *
  * @module
  */
@@ -10,12 +10,16 @@ import type { Grid } from '../core/index.js';
 import type { Surface, SurfaceBounds } from './types.js';
 
 /** How a grid surface is interpolated between samples. */
-export type GridInterpolation = 'bicubic' | 'bilinear';
+export type GridInterpolation = 'bicubic' | 'bilinear' | 'bspline';
 
 /** Options of {@link createGridSurface}. */
 export interface GridSurfaceOptions {
   /**
    * `'bicubic'`: Keys cubic convolution with a = −1/2 (continuous height and slopes).
+   * `'bspline'`: the natural interpolating cubic spline in tensor-product B-spline form
+   * (continuous height, slopes and curvatures; fourth-order accurate inside, zero second
+   * derivative across the edges). Its normals bend smoothly from cell to cell, so a map
+   * traced through it (the imaging area's correction) is smooth as well.
    * `'bilinear'`: continuous height, slopes constant along one axis within a cell and
    * discontinuous across cells.
    * @defaultValue 'bicubic'
@@ -61,6 +65,13 @@ const KEYS_BOUNDS = (() => {
  * neighbours are extrapolated by Keys' boundary rule `f₋₁ = 3f₀ − 3f₁ + f₂`, which keeps
  * third-order accuracy (a 2-sample side uses linear extrapolation).
  *
+ * The `'bspline'` interpolation solves the natural cubic spline's interpolation
+ * conditions for tensor-product B-spline coefficients (a tridiagonal system along every
+ * row, then every column, O(samples)) and evaluates `Σ cᵢⱼ β³(u − i) β³(v − j)`. It
+ * passes through every sample, reproduces planes exactly, and has continuous second
+ * derivatives; its bounds are the coefficients' range (the B-spline weights are
+ * non-negative and sum to one) and their largest difference over the spacing.
+ *
  * **Outside the domain** the coordinates are clamped to it: height and slopes are those
  * at the nearest point of the domain (so a point a rounding error outside an edge gets
  * the edge's values). The intersector never asks outside the domain.
@@ -79,6 +90,10 @@ const KEYS_BOUNDS = (() => {
  * @see Keys, R. G. (1981), "Cubic convolution interpolation for digital image
  *   processing", IEEE Transactions on Acoustics, Speech, and Signal Processing 29(6),
  *   1153–1160, eqs. (15) (kernel with a = −1/2) and (25) (boundary condition).
+ * @see Unser, M. (1999), "Splines: a perfect fit for signal and image processing", IEEE
+ *   Signal Processing Magazine 16(6), 22–38 (B-spline interpolation: coefficients from
+ *   the samples, then the B-spline sum); de Boor, C. (1978), "A Practical Guide to
+ *   Splines", Springer, ch. IV (the natural end condition).
  * @example
  * ```ts
  * const g = gridFromFunction({ width: 64, height: 64, dx: 0.01 }, (x, y) => 0.002 * Math.sin(10 * x));
@@ -91,10 +106,11 @@ export function createGridSurface(grid: Grid, options?: GridSurfaceOptions): Sur
   const fn = 'createGridSurface';
   const g = checkGrid(fn, 'grid', grid);
   const o = checkOptions(fn, options);
-  const interpolation = o.interpolation === undefined ? 'bicubic' : checkOneOf(fn, 'options.interpolation', o.interpolation, ['bicubic', 'bilinear'] as const);
+  const interpolation = o.interpolation === undefined ? 'bicubic' : checkOneOf(fn, 'options.interpolation', o.interpolation, ['bicubic', 'bilinear', 'bspline'] as const);
   if (g.width < 2) rangeError(fn, 'grid.width', g.width, 'at least 2 samples');
   if (g.height < 2) rangeError(fn, 'grid.height', g.height, 'at least 2 samples');
-  return interpolation === 'bicubic' ? bicubicSurface(g) : bilinearSurface(g);
+  if (interpolation === 'bilinear') return bilinearSurface(g);
+  return interpolation === 'bspline' ? cubicSurface(g, splinePadded(g), true) : cubicSurface(g, keysPadded(g), false);
 }
 
 function domainOf(g: Grid): { xMin: number; xMax: number; yMin: number; yMax: number } {
@@ -162,11 +178,11 @@ function bilinearSurface(g: Grid): Surface {
   };
 }
 
-function bicubicSurface(g: Grid): Surface {
-  const { width: W, height: H, dx, dy, x0, y0, data } = g;
+/** Padded copy of the samples, one ghost sample around, ghosts by Keys' boundary rule. */
+function keysPadded(g: Grid): Float64Array {
+  const { width: W, height: H, data } = g;
   const PW = W + 2;
-  const PH = H + 2;
-  const P = new Float64Array(PW * PH);
+  const P = new Float64Array(PW * (H + 2));
   for (let j = 0; j < H; j++) {
     const r = (j + 1) * PW;
     for (let i = 0; i < W; i++) P[r + i + 1] = data[j * W + i]!;
@@ -189,6 +205,127 @@ function bicubicSurface(g: Grid): Surface {
       P[c(H + 1)] = 2 * P[c(H)]! - P[c(H - 1)]!;
     }
   }
+  return P;
+}
+
+/**
+ * Solve the natural cubic spline's interpolation conditions for B-spline coefficients,
+ * in place along `n` values `a[o], a[o + s], …`: `(c[k−1] + 4 c[k] + c[k+1]) / 6 = f[k]`
+ * with `c[0] = f[0]`, `c[n−1] = f[n−1]` (zero second derivative at the ends). Thomas
+ * algorithm with the factors `m` precomputed by {@link splineFactors}.
+ */
+function splineSolve(a: Float64Array, o: number, s: number, n: number, m: Float64Array): void {
+  if (n < 3) return;
+  // Interior unknowns c1 … c(n−2): (c[k−1] + 4c[k] + c[k+1]) = 6 f[k].
+  let prev = a[o]!; // c0 = f0, known
+  const last = a[o + (n - 1) * s]!; // c(n−1) = f(n−1), known
+  // Forward sweep: d_k = (6 f_k − d_{k−1}) · m_k with the known ends folded in.
+  for (let k = 1; k <= n - 2; k++) {
+    let r = 6 * a[o + k * s]! - prev;
+    if (k === n - 2) r -= last;
+    prev = r * m[k]!;
+    a[o + k * s] = prev;
+  }
+  // Back substitution: c_k = d_k − m_k c_{k+1}.
+  let next = 0;
+  for (let k = n - 2; k >= 1; k--) {
+    const c = a[o + k * s]! - m[k]! * next;
+    a[o + k * s] = c;
+    next = c;
+  }
+}
+
+/** Thomas factors of the (1, 4, 1) system of `n − 2` interior unknowns: m_k = 1/(4 − m_{k−1}). */
+function splineFactors(n: number): Float64Array {
+  const m = new Float64Array(Math.max(n, 1));
+  let p = 0;
+  for (let k = 1; k <= n - 2; k++) {
+    p = 1 / (4 - p);
+    m[k] = p;
+  }
+  return m;
+}
+
+/** Padded cubic B-spline coefficients of the natural interpolating spline, ghosts `c₋₁ = 2c₀ − c₁`. */
+function splinePadded(g: Grid): Float64Array {
+  const { width: W, height: H, data } = g;
+  const PW = W + 2;
+  const P = new Float64Array(PW * (H + 2));
+  for (let j = 0; j < H; j++) for (let i = 0; i < W; i++) P[(j + 1) * PW + i + 1] = data[j * W + i]!;
+  const mx = splineFactors(W), my = splineFactors(H);
+  for (let j = 1; j <= H; j++) splineSolve(P, j * PW + 1, 1, W, mx);
+  for (let i = 1; i <= W; i++) splineSolve(P, PW + i, PW, H, my);
+  for (let j = 1; j <= H; j++) {
+    const r = j * PW;
+    P[r] = 2 * P[r + 1]! - P[r + 2]!;
+    P[r + W + 1] = 2 * P[r + W]! - P[r + W - 1]!;
+  }
+  for (let i = 0; i < PW; i++) {
+    P[i] = 2 * P[PW + i]! - P[2 * PW + i]!;
+    P[(H + 1) * PW + i] = 2 * P[H * PW + i]! - P[(H - 1) * PW + i]!;
+  }
+  return P;
+}
+
+/** Cells up to which a cubic surface keeps power-basis coefficients (16 numbers a cell, 8 MiB at most). */
+const POLY_CELLS = 65536;
+
+// The 1-D weights of the samples at offsets −1, 0, 1, 2 as cubics in t: row k holds the
+// coefficients of 1, t, t², t³ of weight k.
+const KEYS_BASIS: readonly (readonly number[])[] = [
+  [0, -0.5, 1, -0.5],
+  [1, 0, -2.5, 1.5],
+  [0, 0.5, 2, -1.5],
+  [0, 0, -0.5, 0.5],
+];
+const BSPLINE_BASIS: readonly (readonly number[])[] = [
+  [1 / 6, -0.5, 0.5, -1 / 6],
+  [4 / 6, 0, -1, 0.5],
+  [1 / 6, 0.5, 0.5, -0.5],
+  [0, 0, 0, 1 / 6],
+];
+
+/**
+ * Each cell's interpolant in the power basis: `h(t, s) = Σ c[16·cell + 4m + n] tᵐ sⁿ`
+ * with `c[m][n] = Σₖ Σₗ M[k][m] M[l][n] P[j + l][i + k]` over the cell's 4 × 4 padded
+ * values.
+ */
+function powerCoefficients(P: Float64Array, W: number, H: number, M: readonly (readonly number[])[]): Float64Array {
+  const PW = W + 2;
+  const C = new Float64Array(16 * (W - 1) * (H - 1));
+  const T = new Float64Array(16); // T[m][l] = Σ_k M[k][m] P[l][k]
+  for (let j = 0; j < H - 1; j++) {
+    for (let i = 0; i < W - 1; i++) {
+      const base = j * PW + i;
+      for (let m = 0; m < 4; m++) {
+        for (let l = 0; l < 4; l++) {
+          let a = 0;
+          for (let k = 0; k < 4; k++) a += M[k]![m]! * P[base + l * PW + k]!;
+          T[4 * m + l] = a;
+        }
+      }
+      const o = 16 * (j * (W - 1) + i);
+      for (let m = 0; m < 4; m++) {
+        for (let n = 0; n < 4; n++) {
+          let a = 0;
+          for (let l = 0; l < 4; l++) a += M[l]![n]! * T[4 * m + l]!;
+          C[o + 4 * m + n] = a;
+        }
+      }
+    }
+  }
+  return C;
+}
+
+/**
+ * The tensor-product cubic surface over padded values `P` (sample or coefficient
+ * `(i − 1, j − 1)` at padded index `j·PW + i`): Keys weights on samples, or cubic
+ * B-spline weights on spline coefficients.
+ */
+function cubicSurface(g: Grid, P: Float64Array, spline: boolean): Surface {
+  const { width: W, height: H, dx, dy, x0, y0 } = g;
+  const PW = W + 2;
+  const PH = H + 2;
   let lo = Infinity;
   let hi = -Infinity;
   let ddx = 0;
@@ -202,17 +339,56 @@ function bicubicSurface(g: Grid): Surface {
       if (j + 1 < PH) ddy = Math.max(ddy, Math.abs(P[(j + 1) * PW + i]! - v));
     }
   }
-  // h − c = Σ wᵢ wⱼ (f − c) with Σ w = 1 along each axis: |h − c| ≤ (Σ|w|)² (hi − lo)/2.
+  // Keys: h − c = Σ wᵢ wⱼ (f − c) with Σ w = 1 along each axis: |h − c| ≤ (Σ|w|)² (hi − lo)/2.
+  // B-spline: weights ≥ 0 summing to 1, so h lies in the coefficients' range; its slope is
+  // a quadratic B-spline of the coefficient differences, so |h_x| ≤ max |Δc| / dx.
   const mid = 0.5 * (lo + hi);
-  const half = 0.5 * (hi - lo) * KEYS_BOUNDS.w * KEYS_BOUNDS.w;
+  const half = spline ? 0.5 * (hi - lo) : 0.5 * (hi - lo) * KEYS_BOUNDS.w * KEYS_BOUNDS.w;
   const idx = 1 / dx;
   const idy = 1 / dy;
-  const slopeX = KEYS_BOUNDS.b * KEYS_BOUNDS.w * ddx * idx;
-  const slopeY = KEYS_BOUNDS.b * KEYS_BOUNDS.w * ddy * idy;
+  const slopeX = spline ? ddx * idx : KEYS_BOUNDS.b * KEYS_BOUNDS.w * ddx * idx;
+  const slopeY = spline ? ddy * idy : KEYS_BOUNDS.b * KEYS_BOUNDS.w * ddy * idy;
   const uMax = W - 1;
   const vMax = H - 1;
+  const S6 = 1 / 6;
+  const coef = (W - 1) * (H - 1) <= POLY_CELLS ? powerCoefficients(P, W, H, spline ? BSPLINE_BASIS : KEYS_BASIS) : null;
 
-  const heightGradient = (x: number, y: number, out: Float64Array | number[]): number => {
+  // The same interpolant from each cell's precomputed power-basis coefficients (about half
+  // the arithmetic and one contiguous read); used when the table is small enough.
+  const heightGradientPoly = (x: number, y: number, out: Float64Array | number[]): number => {
+    const c = coef!;
+    let u = (x - x0) * idx;
+    let v = (y - y0) * idy;
+    if (u < 0) u = 0;
+    else if (u > uMax) u = uMax;
+    if (v < 0) v = 0;
+    else if (v > vMax) v = vMax;
+    let i = Math.floor(u);
+    let j = Math.floor(v);
+    if (i > W - 2) i = W - 2;
+    if (j > H - 2) j = H - 2;
+    const t = u - i;
+    const s = v - j;
+    const k = 16 * (j * (W - 1) + i);
+    // h = Σ_m t^m q_m(s), q_m(s) = Σ_n c[k + 4m + n] s^n.
+    const c00 = c[k]!, c01 = c[k + 1]!, c02 = c[k + 2]!, c03 = c[k + 3]!;
+    const c10 = c[k + 4]!, c11 = c[k + 5]!, c12 = c[k + 6]!, c13 = c[k + 7]!;
+    const c20 = c[k + 8]!, c21 = c[k + 9]!, c22 = c[k + 10]!, c23 = c[k + 11]!;
+    const c30 = c[k + 12]!, c31 = c[k + 13]!, c32 = c[k + 14]!, c33 = c[k + 15]!;
+    const q0 = c00 + s * (c01 + s * (c02 + s * c03));
+    const q1 = c10 + s * (c11 + s * (c12 + s * c13));
+    const q2 = c20 + s * (c21 + s * (c22 + s * c23));
+    const q3 = c30 + s * (c31 + s * (c32 + s * c33));
+    const r0 = c01 + s * (2 * c02 + 3 * s * c03);
+    const r1 = c11 + s * (2 * c12 + 3 * s * c13);
+    const r2 = c21 + s * (2 * c22 + 3 * s * c23);
+    const r3 = c31 + s * (2 * c32 + 3 * s * c33);
+    out[0] = (q1 + t * (2 * q2 + 3 * t * q3)) * idx;
+    out[1] = (r0 + t * (r1 + t * (r2 + t * r3))) * idy;
+    return q0 + t * (q1 + t * (q2 + t * q3));
+  };
+
+  const heightGradientWeights = (x: number, y: number, out: Float64Array | number[]): number => {
     let u = (x - x0) * idx;
     let v = (y - y0) * idy;
     if (u < 0) u = 0;
@@ -229,23 +405,46 @@ function bicubicSurface(g: Grid): Surface {
     const t3 = t2 * t;
     const s2 = s * s;
     const s3 = s2 * s;
-    // Keys (a = −1/2) weights and their derivatives, offsets −1, 0, 1, 2.
-    const a0 = 0.5 * (-t3 + 2 * t2 - t);
-    const a1 = 0.5 * (3 * t3 - 5 * t2 + 2);
-    const a2 = 0.5 * (-3 * t3 + 4 * t2 + t);
-    const a3 = 0.5 * (t3 - t2);
-    const da0 = 0.5 * (-3 * t2 + 4 * t - 1);
-    const da1 = 0.5 * (9 * t2 - 10 * t);
-    const da2 = 0.5 * (-9 * t2 + 8 * t + 1);
-    const da3 = 0.5 * (3 * t2 - 2 * t);
-    const b0 = 0.5 * (-s3 + 2 * s2 - s);
-    const b1 = 0.5 * (3 * s3 - 5 * s2 + 2);
-    const b2 = 0.5 * (-3 * s3 + 4 * s2 + s);
-    const b3 = 0.5 * (s3 - s2);
-    const db0 = 0.5 * (-3 * s2 + 4 * s - 1);
-    const db1 = 0.5 * (9 * s2 - 10 * s);
-    const db2 = 0.5 * (-9 * s2 + 8 * s + 1);
-    const db3 = 0.5 * (3 * s2 - 2 * s);
+    let a0: number, a1: number, a2: number, a3: number, da0: number, da1: number, da2: number, da3: number;
+    let b0: number, b1: number, b2: number, b3: number, db0: number, db1: number, db2: number, db3: number;
+    if (spline) {
+      // Cubic B-spline basis and its derivative, offsets −1, 0, 1, 2.
+      const mt = 1 - t, ms = 1 - s;
+      a0 = S6 * mt * mt * mt;
+      a1 = S6 * (3 * t3 - 6 * t2 + 4);
+      a2 = S6 * (-3 * t3 + 3 * t2 + 3 * t + 1);
+      a3 = S6 * t3;
+      da0 = -0.5 * mt * mt;
+      da1 = 0.5 * (3 * t2 - 4 * t);
+      da2 = 0.5 * (-3 * t2 + 2 * t + 1);
+      da3 = 0.5 * t2;
+      b0 = S6 * ms * ms * ms;
+      b1 = S6 * (3 * s3 - 6 * s2 + 4);
+      b2 = S6 * (-3 * s3 + 3 * s2 + 3 * s + 1);
+      b3 = S6 * s3;
+      db0 = -0.5 * ms * ms;
+      db1 = 0.5 * (3 * s2 - 4 * s);
+      db2 = 0.5 * (-3 * s2 + 2 * s + 1);
+      db3 = 0.5 * s2;
+    } else {
+      // Keys (a = −1/2) weights and their derivatives, offsets −1, 0, 1, 2.
+      a0 = 0.5 * (-t3 + 2 * t2 - t);
+      a1 = 0.5 * (3 * t3 - 5 * t2 + 2);
+      a2 = 0.5 * (-3 * t3 + 4 * t2 + t);
+      a3 = 0.5 * (t3 - t2);
+      da0 = 0.5 * (-3 * t2 + 4 * t - 1);
+      da1 = 0.5 * (9 * t2 - 10 * t);
+      da2 = 0.5 * (-9 * t2 + 8 * t + 1);
+      da3 = 0.5 * (3 * t2 - 2 * t);
+      b0 = 0.5 * (-s3 + 2 * s2 - s);
+      b1 = 0.5 * (3 * s3 - 5 * s2 + 2);
+      b2 = 0.5 * (-3 * s3 + 4 * s2 + s);
+      b3 = 0.5 * (s3 - s2);
+      db0 = 0.5 * (-3 * s2 + 4 * s - 1);
+      db1 = 0.5 * (9 * s2 - 10 * s);
+      db2 = 0.5 * (-9 * s2 + 8 * s + 1);
+      db3 = 0.5 * (3 * s2 - 2 * s);
+    }
     // Padded index of sample (i − 1, j − 1) is (j)·PW + i.
     let k = j * PW + i;
     let f0 = P[k]!;
@@ -291,6 +490,7 @@ function bicubicSurface(g: Grid): Surface {
     out[1] = hy * idy;
     return h;
   };
+  const heightGradient = coef !== null ? heightGradientPoly : heightGradientWeights;
   const tmp = new Float64Array(2);
   const bounds: SurfaceBounds = { ...domainOf(g), zMin: mid - half, zMax: mid + half };
   return {

@@ -123,6 +123,103 @@ describe('createGridSurface (bicubic)', () => {
   });
 });
 
+describe('createGridSurface (bicubic), large grids', () => {
+  // Grids beyond 65 536 cells are evaluated from the samples' weights instead of
+  // per-cell power-basis coefficients; Keys' kernel is local, so inside a sub-grid both
+  // must give the same interpolant.
+  it('agrees with the per-cell coefficient form on a sub-grid (interior cells)', () => {
+    const f = (x: number, y: number): number => 0.002 * Math.sin(40 * x + 7 * y) + 0.001 * Math.cos(23 * y - 5 * x);
+    const big = createGridSurface(gridFromFunction({ width: 300, height: 300, dx: 0.004 }, f));
+    const small = createGridSurface(gridFromFunction({ width: 40, height: 40, dx: 0.004 }, f));
+    const a = new Float64Array(2), b = new Float64Array(2);
+    for (let k = 0; k < 400; k++) {
+      const x = 0.02 + 0.11 * ((k * 0.618034) % 1), y = 0.02 + 0.11 * ((k * 0.414214) % 1);
+      const ha = big.heightGradient(x, y, a), hb = small.heightGradient(x, y, b);
+      expect(Math.abs(ha - hb)).toBeLessThan(1e-15);
+      expect(Math.abs(a[0]! - b[0]!)).toBeLessThan(1e-12);
+      expect(Math.abs(a[1]! - b[1]!)).toBeLessThan(1e-12);
+    }
+  });
+});
+
+describe('createGridSurface (bspline)', () => {
+  const opts = { interpolation: 'bspline' } as const;
+  it('passes through every sample and reproduces planes exactly (natural cubic spline: de Boor 1978, ch. IV)', () => {
+    const g = createGrid({ width: 9, height: 7, dx: 0.1, dy: 0.2, x0: -0.3, y0: 0.1 });
+    for (let k = 0; k < g.data.length; k++) g.data[k] = Math.sin(k * 12.9898) * 0.01;
+    const sf = createGridSurface(g, opts);
+    for (let j = 0; j < 7; j++) for (let i = 0; i < 9; i++) expect(sf.height(-0.3 + 0.1 * i, 0.1 + 0.2 * j)).toBeCloseTo(g.data[j * 9 + i]!, 14);
+    const plane = createGridSurface(gridFromFunction({ width: 6, height: 5, dx: 0.05 }, (x, y) => 0.01 + 0.2 * x - 0.3 * y), opts);
+    for (let k = 0; k < 200; k++) {
+      const x = 0.25 * ((k * 0.618034) % 1), y = 0.2 * ((k * 0.414214) % 1);
+      const h = plane.heightGradient(x, y, g2);
+      expect(h).toBeCloseTo(0.01 + 0.2 * x - 0.3 * y, 14);
+      expect(g2[0]).toBeCloseTo(0.2, 13);
+      expect(g2[1]).toBeCloseTo(-0.3, 13);
+    }
+  });
+
+  it('converges at fourth order inside the domain (cubic spline interpolation: O(h^4), de Boor 1978)', () => {
+    const f = (x: number, y: number): number => Math.sin(3 * x) * Math.cos(2 * y);
+    const err = (n: number): number => {
+      const d = 1 / (n - 1);
+      const sf = createGridSurface(gridFromFunction({ width: n, height: n, dx: d }, f), opts);
+      let e = 0;
+      for (let k = 0; k < 500; k++) {
+        const x = 0.3 + 0.4 * ((k * 0.618034) % 1);
+        const y = 0.3 + 0.4 * ((k * 0.414214) % 1);
+        e = Math.max(e, Math.abs(sf.height(x, y) - f(x, y)));
+      }
+      return e;
+    };
+    const ratio = err(17) / err(33);
+    expect(ratio).toBeGreaterThan(12); // 16 for exact fourth order
+    expect(ratio).toBeLessThan(24);
+  });
+
+  it('has continuous curvature across cell edges (C2), unlike the C1 Keys interpolant', () => {
+    const g = gridFromFunction({ width: 12, height: 12, dx: 0.1 }, (x, y) => Math.sin(7 * x + 3 * y));
+    const jump = (sf: Surface): number => {
+      // Second derivative along x from the analytic slopes, just left and right of each cell edge.
+      const a = new Float64Array(2), b = new Float64Array(2), c = new Float64Array(2), d = new Float64Array(2);
+      let worst = 0;
+      for (let i = 2; i < 10; i++) {
+        const x = i * 0.1, e = 1e-7;
+        sf.gradient(x - 2 * e, 0.537, a);
+        sf.gradient(x - e, 0.537, b);
+        sf.gradient(x + e, 0.537, c);
+        sf.gradient(x + 2 * e, 0.537, d);
+        worst = Math.max(worst, Math.abs((d[0]! - c[0]!) / e - (b[0]! - a[0]!) / e));
+      }
+      return worst;
+    };
+    expect(jump(createGridSurface(g, opts))).toBeLessThan(1e-3);
+    expect(jump(createGridSurface(g))).toBeGreaterThan(1); // Keys: the curvature jumps at cell edges
+  });
+
+  it('gives a gradient that is the derivative of its height, and respects its own bounds', () => {
+    const rough = createGrid({ width: 20, height: 16, dx: 0.01 });
+    for (let k = 0; k < rough.data.length; k++) rough.data[k] = Math.sin(k * 12.9898) * 0.003;
+    const sf = createGridSurface(rough, opts);
+    fc.assert(
+      fc.property(fc.double({ min: 0.001, max: 0.999, noNaN: true }), fc.double({ min: 0.001, max: 0.999, noNaN: true }), (a, b) => {
+        const x = a * sf.bounds.xMax;
+        const y = b * sf.bounds.yMax;
+        const e = 1e-7;
+        const h = sf.heightGradient(x, y, g2);
+        const fdx = (sf.height(x + e, y) - sf.height(x - e, y)) / (2 * e);
+        const fdy = (sf.height(x, y + e) - sf.height(x, y - e)) / (2 * e);
+        expect(Math.abs(g2[0]! - fdx)).toBeLessThan(1e-5);
+        expect(Math.abs(g2[1]! - fdy)).toBeLessThan(1e-5);
+        expect(h).toBeGreaterThanOrEqual(sf.bounds.zMin);
+        expect(h).toBeLessThanOrEqual(sf.bounds.zMax);
+        expect(Math.hypot(g2[0]!, g2[1]!)).toBeLessThanOrEqual(sf.maxSlope);
+      }),
+      { seed: 42, numRuns: 300 },
+    );
+  });
+});
+
 describe('createGridSurface (bilinear)', () => {
   it('is exact for a bilinear field a + bx + cy + dxy (common practice: definition of bilinear interpolation)', () => {
     const f = (x: number, y: number): number => 1 - 0.5 * x + 0.25 * y + 0.125 * x * y;
