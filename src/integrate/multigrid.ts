@@ -15,9 +15,11 @@
  * Galerkin operator scaled to the right energy for smooth error (equivalently, the
  * coarse correction over-corrected by 2); the extra diagonal is summed. Restriction sums
  * a block, prolongation copies a block's value to its samples (R = Pᵀ). Smoothing is
- * lexicographic Gauss–Seidel, forward before and backward after the coarse correction,
- * so the V-cycle is a symmetric preconditioner for conjugate gradients. The coarsest
- * level (at most 3 × 3) is solved by symmetric Gauss–Seidel sweeps. Cost: O(N) a cycle.
+ * lexicographic Gauss–Seidel, two forward sweeps before and two backward sweeps after
+ * the coarse correction (the adjoint order), so the V-cycle is a symmetric
+ * preconditioner for conjugate gradients. The sweeps, the residual and the transfers of
+ * a level run in one pass over its rows (a wavefront two rows deep). The coarsest level
+ * (at most 3 × 3) is solved by symmetric Gauss–Seidel sweeps. Cost: O(N) a cycle.
  *
  * @see Briggs, W. L., Henson, V. E. & McCormick, S. F. (2000), "A Multigrid Tutorial",
  *   2nd ed., SIAM (V-cycle, Galerkin coarse operators, chapters 3 and 8).
@@ -100,7 +102,7 @@ export class Multigrid {
   readonly levels: MgLevel[];
   readonly settings: MgSettings;
 
-  constructor(w: number, h: number, settings: MgSettings = { sweeps: 1, coarseSweeps: 20 }) {
+  constructor(w: number, h: number, settings: MgSettings = { sweeps: 2, coarseSweeps: 20 }) {
     this.settings = settings;
     const levels: MgLevel[] = [newLevel(w, h)];
     let cw = w;
@@ -129,102 +131,194 @@ export class Multigrid {
     applyLevel(this.levels[0]!, z, out);
   }
 
-  /** One V-cycle from a zero guess: `x ≈ A⁻¹ b` on level 0. */
-  vcycle(b: Float64Array, x: Float64Array): void {
-    this.cycle(0, b, x);
+  /** Apply level 0's operator, `out = A z`, and return `z · out` (padding excluded). */
+  applyDot(z: Float64Array, out: Float64Array): number {
+    return applyLevel(this.levels[0]!, z, out);
   }
 
-  private cycle(l: number, b: Float64Array, x: Float64Array): void {
+  /**
+   * One V-cycle from a zero guess: `x ≈ A⁻¹ b` on level 0. Returns `b · x` over the
+   * grid (the padding of `b` and `x` is neither read nor written).
+   */
+  vcycle(b: Float64Array, x: Float64Array): number {
+    return this.cycle(0, b, x);
+  }
+
+  private cycle(l: number, b: Float64Array, x: Float64Array): number {
     const L = this.levels[l]!;
     if (l === this.levels.length - 1) {
-      x.fill(0);
+      clearGrid(L, x);
       for (let s = 0; s < this.settings.coarseSweeps; s++) gsForward(L, b, x);
       for (let s = 0; s < this.settings.coarseSweeps; s++) gsBackward(L, b, x);
-      return;
+      return gridDot(L, b, x);
     }
     const C = this.levels[l + 1]!;
     const nu = this.settings.sweeps;
-    if (nu === 1) {
-      // fused: zero-start forward sweep, residual and restriction in one pass
-      presmoothRestrict(L, b, x, C, C.b);
+    if (nu === 2) {
+      presmoothRestrict2(L, b, x, C, C.b);
       this.cycle(l + 1, C.b, C.x);
-      prolongSmooth(C, C.x, L, b, x);
-      return;
+      return prolongSmooth2(C, C.x, L, b, x);
     }
-    x.fill(0);
+    clearGrid(L, x);
     for (let s = 0; s < nu; s++) gsForward(L, b, x);
     residual(L, b, x, L.r);
     restrict(L, L.r, C, C.b);
     this.cycle(l + 1, C.b, C.x);
     prolongAdd(C, C.x, L, x);
     for (let s = 0; s < nu; s++) gsBackward(L, b, x);
+    return gridDot(L, b, x);
+  }
+}
+
+function clearGrid(L: MgLevel, x: Float64Array): void {
+  x.fill(0, L.off, L.off + L.w * L.h);
+}
+
+function gridDot(L: MgLevel, a: Float64Array, c: Float64Array): number {
+  const end = L.off + L.w * L.h;
+  let s = 0;
+  for (let k = L.off; k < end; k++) s += a[k]! * c[k]!;
+  return s;
+}
+
+/*
+ * The Gauss–Seidel kernels below share three habits, all for speed in JavaScript engines:
+ * the left (or, backward, right) neighbour's new value is carried in a local, so the
+ * chain from one update to the next is one multiply and one add; a hole (invD = 0) is
+ * not skipped but multiplied by zero, so it comes out 0 without a branch; and a row
+ * starts with that carried neighbour at 0, which is exact because the edge weight
+ * across a row end is zero.
+ */
+
+/**
+ * Two forward Gauss–Seidel sweeps from x = 0, the residual and its restriction, in one
+ * pass: step j sweeps row j for the first time, row j − 1 for the second time, and
+ * restricts the residual of row j − 2, which is final by then. The first sweep reads no
+ * neighbour ahead of it (they are still 0). The second stores its change δ in `L.r`;
+ * after it, the residual at k is only the pull of the changes made ahead of k since k
+ * was updated: `r_k = ex_k δ_{k+1} + ey_k δ_{k+w}`. Every entry of x on the grid is
+ * written, so x needs no clearing.
+ */
+function presmoothRestrict2(L: MgLevel, b: Float64Array, x: Float64Array, C: MgLevel, bc: Float64Array): void {
+  const ex = L.ex;
+  const ey = L.ey;
+  const invD = L.invD;
+  const dl = L.r;
+  const off = L.off;
+  const w = L.w;
+  const h = L.h;
+  const W = C.w;
+  const offc = C.off;
+  bc.fill(0, offc, offc + W * C.h);
+  for (let j = 0; j <= h + 1; j++) {
+    if (j < h) {
+      // first sweep of row j
+      const row = off + j * w;
+      const end = row + w;
+      let xl = 0;
+      let exl = 0;
+      for (let k = row; k < end; k++) {
+        const inv = invD[k]!;
+        const exr = ex[k]!;
+        const v = (b[k]! + ey[k - w]! * x[k - w]!) * inv + exl * inv * xl;
+        x[k] = v;
+        xl = v;
+        exl = exr;
+      }
+    }
+    if (j >= 1 && j <= h) {
+      // second sweep of row j − 1
+      const row = off + (j - 1) * w;
+      const end = row + w;
+      let xl = 0;
+      let exl = 0;
+      for (let k = row; k < end; k++) {
+        const inv = invD[k]!;
+        const exr = ex[k]!;
+        const v = (b[k]! + exr * x[k + 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exl * inv * xl;
+        dl[k] = v - x[k]!;
+        x[k] = v;
+        xl = v;
+        exl = exr;
+      }
+    }
+    if (j >= 2) {
+      // residual of row j − 2, summed over 2 × 2 blocks
+      const m = j - 2;
+      const row = off + m * w;
+      let k = row;
+      let K = offc + (m >> 1) * W;
+      for (const end = row + w - 1; k < end; k += 2, K++) {
+        const r0 = ex[k]! * dl[k + 1]! + ey[k]! * dl[k + w]!;
+        const r1 = ex[k + 1]! * dl[k + 2]! + ey[k + 1]! * dl[k + 1 + w]!;
+        bc[K] = bc[K]! + r0 + r1;
+      }
+      if (k < row + w) bc[K] = bc[K]! + ex[k]! * dl[k + 1]! + ey[k]! * dl[k + w]!;
+    }
   }
 }
 
 /**
- * One forward Gauss–Seidel sweep from x = 0, with the residual restricted on the fly.
- * From a zero start, after the sweep the residual at k is only the pull of the two
- * neighbours updated after k: `r_k = ex_k x_{k+1} + ey_k x_{k+w}`. Row j − 1's residual
- * is complete once row j is swept, so both happen in the same pass. Every entry of x in
- * the grid range is written (0 where invD = 0), so x needs no clearing.
+ * Add the prolonged coarse correction and run two backward Gauss–Seidel sweeps, in one
+ * pass from the last row up: step j corrects row j − 1, sweeps row j for the first time
+ * and row j + 1 for the second time. Returns `b · x` of the final x.
  */
-function presmoothRestrict(L: MgLevel, b: Float64Array, x: Float64Array, C: MgLevel, bc: Float64Array): void {
-  const { ex, ey, invD, off, w, h } = L;
+function prolongSmooth2(C: MgLevel, xc: Float64Array, L: MgLevel, b: Float64Array, x: Float64Array): number {
+  const ex = L.ex;
+  const ey = L.ey;
+  const invD = L.invD;
+  const off = L.off;
+  const w = L.w;
+  const h = L.h;
   const W = C.w;
   const offc = C.off;
-  bc.fill(0);
-  for (let j = 0; j < h; j++) {
-    const row = off + j * w;
-    const end = row + w;
-    if (j === 0) {
-      for (let k = row; k < end; k++) x[k] = (b[k]! + ex[k - 1]! * x[k - 1]!) * invD[k]!;
-      continue;
+  let dot = 0;
+  for (let j = h; j >= -1; j--) {
+    if (j >= 1) {
+      // coarse correction of row j − 1
+      const m = j - 1;
+      const row = off + m * w;
+      let k = row;
+      let K = offc + (m >> 1) * W;
+      for (const end = row + w - 1; k < end; k += 2, K++) {
+        const v = xc[K]!;
+        x[k] = x[k]! + v;
+        x[k + 1] = x[k + 1]! + v;
+      }
+      if (k < row + w) x[k] = x[k]! + xc[K]!;
     }
-    const rowC = offc + ((j - 1) >> 1) * W;
-    for (let k = row, i = 0; k < end; k++, i++) {
-      const v = (b[k]! + ex[k - 1]! * x[k - 1]! + ey[k - w]! * x[k - w]!) * invD[k]!;
-      x[k] = v;
-      const u = k - w; // row j − 1: final now
-      const K = rowC + (i >> 1);
-      bc[K] = bc[K]! + ex[u]! * x[u + 1]! + ey[u]! * v;
+    if (j >= 0 && j < h) {
+      // first backward sweep of row j
+      const row = off + j * w;
+      let xr = 0;
+      let exr = 0;
+      for (let k = row + w - 1; k >= row; k--) {
+        const inv = invD[k]!;
+        const exl = ex[k - 1]!;
+        const v = (b[k]! + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
+        x[k] = v;
+        xr = v;
+        exr = exl;
+      }
     }
-  }
-  // last row: only the right neighbour was updated after each sample
-  const row = off + (h - 1) * w;
-  const rowC = offc + ((h - 1) >> 1) * W;
-  for (let k = row, i = 0; k < row + w; k++, i++) {
-    const K = rowC + (i >> 1);
-    bc[K] = bc[K]! + ex[k]! * x[k + 1]!;
-  }
-}
-
-/**
- * Add the prolonged coarse correction and run one backward Gauss–Seidel sweep, in one
- * pass from the last row up: row j − 1 is corrected just before row j is swept (the
- * sweep of row j reads it).
- */
-function prolongSmooth(C: MgLevel, xc: Float64Array, L: MgLevel, b: Float64Array, x: Float64Array): void {
-  const { ex, ey, invD, off, w, h } = L;
-  const W = C.w;
-  const offc = C.off;
-  const correct = (j: number): void => {
-    const row = off + j * w;
-    const rowC = offc + (j >> 1) * W;
-    for (let k = row, i = 0; k < row + w; k++, i++) {
-      if (invD[k] !== 0) x[k] = x[k]! + xc[rowC + (i >> 1)]!;
-    }
-  };
-  correct(h - 1);
-  for (let j = h - 1; j >= 0; j--) {
-    if (j > 0) correct(j - 1);
-    const row = off + j * w;
-    for (let k = row + w - 1; k >= row; k--) {
-      const inv = invD[k]!;
-      if (inv === 0) continue;
-      x[k] =
-        (b[k]! + ex[k - 1]! * x[k - 1]! + ex[k]! * x[k + 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv;
+    if (j + 1 < h) {
+      // second backward sweep of row j + 1
+      const row = off + (j + 1) * w;
+      let xr = 0;
+      let exr = 0;
+      for (let k = row + w - 1; k >= row; k--) {
+        const inv = invD[k]!;
+        const exl = ex[k - 1]!;
+        const bk = b[k]!;
+        const v = (bk + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
+        x[k] = v;
+        xr = v;
+        exr = exl;
+        dot += bk * v;
+      }
     }
   }
+  return dot;
 }
 
 function coarsen(F: MgLevel, C: MgLevel): void {
@@ -255,39 +349,62 @@ function coarsen(F: MgLevel, C: MgLevel): void {
   finishDiagonal(C);
 }
 
-/** out = A z on one level. @internal */
-export function applyLevel(L: MgLevel, z: Float64Array, out: Float64Array): void {
-  const { ex, ey, d, off, w, h } = L;
-  const end = off + w * h;
+/** out = A z on one level; returns z · out (over the grid). @internal */
+export function applyLevel(L: MgLevel, z: Float64Array, out: Float64Array): number {
+  const ex = L.ex;
+  const ey = L.ey;
+  const d = L.d;
+  const off = L.off;
+  const w = L.w;
+  const end = off + w * L.h;
+  let dot = 0;
+  let zl = z[off - 1]!;
+  let z0 = z[off]!;
+  let exl = ex[off - 1]!;
   for (let k = off; k < end; k++) {
-    out[k] =
-      d[k]! * z[k]! -
-      ex[k - 1]! * z[k - 1]! -
-      ex[k]! * z[k + 1]! -
-      ey[k - w]! * z[k - w]! -
-      ey[k]! * z[k + w]!;
+    const zr = z[k + 1]!;
+    const exr = ex[k]!;
+    const v = d[k]! * z0 - (exl * zl + exr * zr) - (ey[k - w]! * z[k - w]! + ey[k]! * z[k + w]!);
+    out[k] = v;
+    dot += z0 * v;
+    zl = z0;
+    z0 = zr;
+    exl = exr;
   }
+  return dot;
 }
 
 function gsForward(L: MgLevel, b: Float64Array, x: Float64Array): void {
   const { ex, ey, invD, off, w, h } = L;
-  const end = off + w * h;
-  for (let k = off; k < end; k++) {
-    const inv = invD[k]!;
-    if (inv === 0) continue;
-    x[k] =
-      (b[k]! + ex[k - 1]! * x[k - 1]! + ex[k]! * x[k + 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv;
+  for (let j = 0; j < h; j++) {
+    const row = off + j * w;
+    let xl = 0;
+    let exl = 0;
+    for (let k = row; k < row + w; k++) {
+      const inv = invD[k]!;
+      const exr = ex[k]!;
+      const v = (b[k]! + exr * x[k + 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exl * inv * xl;
+      x[k] = v;
+      xl = v;
+      exl = exr;
+    }
   }
 }
 
 function gsBackward(L: MgLevel, b: Float64Array, x: Float64Array): void {
   const { ex, ey, invD, off, w, h } = L;
-  const end = off + w * h;
-  for (let k = end - 1; k >= off; k--) {
-    const inv = invD[k]!;
-    if (inv === 0) continue;
-    x[k] =
-      (b[k]! + ex[k - 1]! * x[k - 1]! + ex[k]! * x[k + 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv;
+  for (let j = h - 1; j >= 0; j--) {
+    const row = off + j * w;
+    let xr = 0;
+    let exr = 0;
+    for (let k = row + w - 1; k >= row; k--) {
+      const inv = invD[k]!;
+      const exl = ex[k - 1]!;
+      const v = (b[k]! + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
+      x[k] = v;
+      xr = v;
+      exr = exl;
+    }
   }
 }
 
@@ -317,7 +434,7 @@ function restrict(F: MgLevel, r: Float64Array, C: MgLevel, bc: Float64Array): vo
 }
 
 function prolongAdd(C: MgLevel, xc: Float64Array, F: MgLevel, x: Float64Array): void {
-  const { w, h, off, invD } = F;
+  const { w, h, off } = F;
   const W = C.w;
   const offc = C.off;
   for (let j = 0; j < h; j++) {
@@ -325,7 +442,7 @@ function prolongAdd(C: MgLevel, xc: Float64Array, F: MgLevel, x: Float64Array): 
     const rowC = offc + (j >> 1) * W;
     for (let i = 0; i < w; i++) {
       const k = rowF + i;
-      if (invD[k] !== 0) x[k] = x[k]! + xc[rowC + (i >> 1)]!;
+      x[k] = x[k]! + xc[rowC + (i >> 1)]!;
     }
   }
 }

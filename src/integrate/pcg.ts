@@ -20,6 +20,11 @@ export interface PcgOptions {
    * prepared solver allocates nothing per frame. Allocated per call when absent.
    */
   workspace?: PcgWorkspace | undefined;
+  /**
+   * Optional fused form of `applyA`: writes `A v` into `out` and returns `v · out`,
+   * saving the separate pass for the dot product.
+   */
+  applyADot?: ((v: Float64Array, out: Float64Array) => number) | undefined;
 }
 
 /** Reusable PCG work vectors. @internal */
@@ -49,7 +54,8 @@ export interface PcgResult {
 /**
  * Solve `A x = b` by PCG. `x` holds the initial guess and receives the solution.
  * `applyA(v, out)` writes `A v` into `out`; `applyM(r, z)` writes the preconditioned
- * residual `M⁻¹ r` into `z` (identity when null). Work buffers are allocated once.
+ * residual `M⁻¹ r` into `z` (identity when null) and may return `r · z` to spare the
+ * solver that dot product. Work buffers are allocated once.
  *
  * @see Hestenes, M. R. & Stiefel, E. (1952), "Methods of conjugate gradients for solving
  *   linear systems", J. Res. Nat. Bur. Standards 49(6), 409–436.
@@ -59,7 +65,7 @@ export function pcg(
   applyA: (v: Float64Array, out: Float64Array) => void,
   b: Float64Array,
   x: Float64Array,
-  applyM: ((r: Float64Array, z: Float64Array) => void) | null,
+  applyM: ((r: Float64Array, z: Float64Array) => number | void) | null,
   opts: PcgOptions,
 ): PcgResult {
   const n = b.length;
@@ -74,32 +80,57 @@ export function pcg(
     q.fill(0);
     z.fill(0);
   }
-  let bnorm = 0;
-  for (let i = 0; i < n; i++) bnorm += b[i]! * b[i]!;
-  bnorm = Math.sqrt(bnorm);
+  let bb = 0;
+  for (let i = 0; i < n; i++) bb += b[i]! * b[i]!;
+  const bnorm = Math.sqrt(bb);
   if (bnorm === 0) {
     x.fill(0);
     return { iterations: 0, relativeResidual: 0, converged: true };
   }
-  applyA(x, q);
-  let rr = 0;
+  // x = 0 (the usual cold start) needs no product: r = b
+  let zeroStart = true;
   for (let i = 0; i < n; i++) {
-    const v = b[i]! - q[i]!;
-    r[i] = v;
-    rr += v * v;
+    if (x[i] !== 0) {
+      zeroStart = false;
+      break;
+    }
+  }
+  let rr = 0;
+  if (zeroStart) {
+    r.set(b);
+    rr = bb;
+  } else {
+    applyA(x, q);
+    for (let i = 0; i < n; i++) {
+      const v = b[i]! - q[i]!;
+      r[i] = v;
+      rr += v * v;
+    }
   }
   let rel = Math.sqrt(rr) / bnorm;
   if (rel <= opts.tolerance) return { iterations: 0, relativeResidual: rel, converged: true };
-  if (applyM) applyM(r, z);
-  else z.set(r);
-  let rz = 0;
-  for (let i = 0; i < n; i++) rz += r[i]! * z[i]!;
+  const precondition = (): number => {
+    if (!applyM) {
+      z.set(r);
+      return rr;
+    }
+    const got = applyM(r, z);
+    if (typeof got === 'number') return got;
+    let s = 0;
+    for (let i = 0; i < n; i++) s += r[i]! * z[i]!;
+    return s;
+  };
+  const fused = opts.applyADot;
+  let rz = precondition();
   p.set(z);
   let it = 0;
   while (it < opts.maxIterations) {
-    applyA(p, q);
     let pq = 0;
-    for (let i = 0; i < n; i++) pq += p[i]! * q[i]!;
+    if (fused) pq = fused(p, q);
+    else {
+      applyA(p, q);
+      for (let i = 0; i < n; i++) pq += p[i]! * q[i]!;
+    }
     if (!(pq > 0)) break; // breakdown: A not positive definite along p (or exact solve)
     const alpha = rz / pq;
     rr = 0;
@@ -113,10 +144,7 @@ export function pcg(
     rel = Math.sqrt(rr) / bnorm;
     if (opts.onProgress && opts.onProgress(it, rel) === false) break;
     if (rel <= opts.tolerance) return { iterations: it, relativeResidual: rel, converged: true };
-    if (applyM) applyM(r, z);
-    else z.set(r);
-    let rzNew = 0;
-    for (let i = 0; i < n; i++) rzNew += r[i]! * z[i]!;
+    const rzNew = precondition();
     const beta = rzNew / rz;
     rz = rzNew;
     for (let i = 0; i < n; i++) p[i] = z[i]! + beta * p[i]!;
