@@ -16,7 +16,7 @@ import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
-import { rasterTriangle, rasterTriangleSnapped, rasterUnitCell } from './raster.js';
+import { rasterTriangleSnapped, rasterUnitCellSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
 import { cellEdgeCurvatures, mapSecondDerivatives } from './curvature.js';
 import type { RasterTarget } from './raster.js';
@@ -203,11 +203,13 @@ function resolveTarget(fn: string, value: unknown): ResolvedScene {
  * line (through flat water: the left column and the bottom row) those pixels stay
  * uncovered.
  *
- * **Rasterisation.** The exact mode's edge functions are evaluated in floating point in
- * a canonical vertex order, so neighbouring triangles agree on shared edges. The fast
- * mode snaps the vertices to a 1/256-pixel lattice (moving each by at most 1/512 pixel),
- * which makes its edge functions exact integers stepped along each row, and, for a
- * one-channel bilinear image, samples each pixel as it is covered.
+ * **Rasterisation.** The mesh's vertices are snapped to a 1/256-pixel lattice in the
+ * output image (moving each by at most 1/512 pixel), which makes the edge functions at
+ * pixel centres exact integers: neighbouring triangles agree on every shared edge and
+ * ties follow the rule exactly. The exact mode takes its one-pixel cells two triangles
+ * at a time; the fast mode steps the edge functions along each row and, for a
+ * one-channel bilinear image, samples each pixel as it is covered. (Vertices beyond
+ * ±32768 pixels fall back to floating-point edge functions in a canonical vertex order.)
  *
  * @param camera - The camera model (of the distorted and the corrected image).
  * @param pose - Its pose in the world.
@@ -495,8 +497,8 @@ function traceMesh(
 
 /**
  * Rasterise the mesh's triangles (two a cell, (a, b, d) and (a, d, c)) into `target`:
- * one-pixel cells of the exact mode together, larger ones triangle by triangle on the
- * snapped lattice, with the quadratic term when `Fuu` is given. Returns the flipped
+ * one-pixel cells of the exact mode together, larger ones (and cells with a corner
+ * missing) triangle by triangle, all on the snapped lattice, with the quadratic term when `Fuu` is given. Returns the flipped
  * triangles.
  */
 function rasterMesh(
@@ -514,6 +516,10 @@ function rasterMesh(
   const MC = cols.length, MR = rows.length;
   let flipped = 0;
   const quadratic = Fuu !== null && Fvv !== null && curv1 !== null && curv2 !== null;
+  // The exact mode's one-pixel cells take their corners on the snap lattice, computed
+  // once a vertex.
+  const snapped = new Int32Array(step === 1 ? 2 * vstat.length : 0), snapOk = new Uint8Array(step === 1 ? vstat.length : 0);
+  if (step === 1) snapVertices(outPix, vstat, S_OK, snapped, snapOk);
   for (let j = 0; j + 1 < MR; j++) {
     const va = rows[j]!, vc = rows[j + 1]!;
     for (let i = 0; i + 1 < MC; i++) {
@@ -524,21 +530,8 @@ function rasterMesh(
       const xb = outPix[2 * kb]!, yb = outPix[2 * kb + 1]!;
       const xc = outPix[2 * kc]!, yc = outPix[2 * kc + 1]!;
       const xd = outPix[2 * kd]!, yd = outPix[2 * kd + 1]!;
-      if (step === 1) {
-        if (sa && sb && scc && sd) {
-          flipped += rasterUnitCell(target, ua, va, xa, ya, xb, yb, xc, yc, xd, yd);
-          continue;
-        }
-        if (sa && sb && sd) {
-          const ar = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
-          if (ar < 0) flipped++;
-          rasterTriangle(target, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc);
-        }
-        if (sa && sd && scc) {
-          const ar = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
-          if (ar < 0) flipped++;
-          rasterTriangle(target, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc);
-        }
+      if (step === 1 && sa && sb && scc && sd && snapOk[ka] === 1 && snapOk[kb] === 1 && snapOk[kc] === 1 && snapOk[kd] === 1) {
+        flipped += rasterUnitCellSnapped(target, ua, va, snapped[2 * ka]!, snapped[2 * ka + 1]!, snapped[2 * kb]!, snapped[2 * kb + 1]!, snapped[2 * kc]!, snapped[2 * kc + 1]!, snapped[2 * kd]!, snapped[2 * kd + 1]!);
         continue;
       }
       if (quadratic) cellEdgeCurvatures(outPix, Fuu, Fvv, ka, kb, kc, kd, ub - ua, vc - va, curv1, curv2, sa && sb && scc && sd);

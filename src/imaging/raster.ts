@@ -212,6 +212,11 @@ const SNAP = 256;
 /** Largest vertex coordinate, pixels, for which the snapped edge functions stay exact integers (< 2⁵³). */
 const SNAP_LIMIT = 32768;
 
+/** A coordinate, pixels, on the snap lattice (an integer count of 1/256 pixel). */
+function snap(x: number): number {
+  return Math.floor(x * SNAP + 0.5);
+}
+
 /**
  * @internal The fast mode's rasteriser: as {@link rasterTriangle}, with the vertices
  * snapped to a 1/256-pixel lattice so that the edge functions at pixel centres are exact
@@ -230,9 +235,9 @@ export function rasterTriangleSnapped(
   if (!(Math.abs(x0) < SNAP_LIMIT && Math.abs(y0) < SNAP_LIMIT && Math.abs(x1) < SNAP_LIMIT && Math.abs(y1) < SNAP_LIMIT && Math.abs(x2) < SNAP_LIMIT && Math.abs(y2) < SNAP_LIMIT)) {
     return Number.isFinite(x0 + y0 + x1 + y1 + x2 + y2) ? rasterTriangle(t, prio, x0, y0, x1, y1, x2, y2, su0, sv0, su1, sv1, su2, sv2, curv) : 0;
   }
-  let X0 = Math.round(x0 * SNAP), Y0 = Math.round(y0 * SNAP);
-  let X1 = Math.round(x1 * SNAP), Y1 = Math.round(y1 * SNAP);
-  let X2 = Math.round(x2 * SNAP), Y2 = Math.round(y2 * SNAP);
+  let X0 = snap(x0), Y0 = snap(y0);
+  let X1 = snap(x1), Y1 = snap(y1);
+  let X2 = snap(x2), Y2 = snap(y2);
   let area = (X1 - X0) * (Y2 - Y0) - (Y1 - Y0) * (X2 - X0);
   if (area === 0) return 0;
   let d01x = 0, d01y = 0, d12x = 0, d12y = 0, d02x = 0, d02y = 0;
@@ -343,35 +348,62 @@ export function rasterTriangleSnapped(
   return covered;
 }
 
-// Coverage of a pixel by a triangle edge with value `e` (canonical `edge` of a → b), for
-// a triangle of orientation `sg` (±1): the same decision as `inside` after the winding
-// is normalised (a flipped triangle tests the reversed edges).
-function covers(e: number, sg: number, ax: number, ay: number, bx: number, by: number): boolean {
+/**
+ * @internal Snap packed output positions (`x y …`, pixels) to the lattice of the snapped
+ * rasterisers. A vertex whose status is not `okValue`, or with a coordinate beyond
+ * ±32768 pixels, gets `snapOk[k] = 0`.
+ */
+export function snapVertices(xy: Float64Array, status: Uint8Array, okValue: number, snapped: Int32Array, snapOk: Uint8Array): void {
+  const n = snapOk.length;
+  for (let k = 0; k < n; k++) {
+    const x = xy[2 * k]!, y = xy[2 * k + 1]!;
+    if (status[k] !== okValue || !(Math.abs(x) < SNAP_LIMIT && Math.abs(y) < SNAP_LIMIT)) {
+      snapOk[k] = 0;
+      continue;
+    }
+    snapped[2 * k] = snap(x);
+    snapped[2 * k + 1] = snap(y);
+    snapOk[k] = 1;
+  }
+}
+
+// Coverage by an exact (integer) edge value `e` of a → b for a triangle of orientation
+// `sg`, with the tie rule of `owns` on the normalised winding.
+function coversSnapped(e: number, sg: number, ax: number, ay: number, bx: number, by: number): boolean {
   const v = sg * e;
-  return v > 0 || (v === 0 && (sg > 0 ? owns(ax, ay, bx, by) : owns(bx, by, ax, ay)));
+  if (v !== 0) return v > 0;
+  return sg > 0 ? owns(ax, ay, bx, by) : owns(bx, by, ax, ay);
 }
 
 /**
  * @internal The exact mode's inverse on one mesh cell of one-pixel size whose four
- * corners all have the map: the cell's triangles (a, b, d) and (a, d, c) (a top left,
- * b top right, c bottom left, d bottom right; output positions x, y; source u₀ … u₀ + 1,
- * v₀ … v₀ + 1) rasterised together over their common bounding box, with the same
- * coverage, tie rule, priorities and interpolation as {@link rasterTriangle} gives
- * them one at a time. Returns the flipped triangles (0, 1 or 2).
+ * corners all have the map, on snapped corners (integers from {@link snapVertices}): the
+ * cell's triangles (a, b, d) and (a, d, c) (a top left, b top right, c bottom left, d
+ * bottom right; source u₀ … u₀ + 1, v₀ … v₀ + 1) rasterised together over their common
+ * bounding box, with the coverage, tie rule, priorities and interpolation that
+ * {@link rasterTriangleSnapped} gives them one at a time. The edge functions are exact,
+ * so a cell's triangles and its neighbours agree on every shared edge with no ordering
+ * rule, and ties follow the rule exactly. Returns the flipped triangles.
  */
-export function rasterUnitCell(
+export function rasterUnitCellSnapped(
   t: RasterTarget,
   u0: number, v0: number,
-  xa: number, ya: number, xb: number, yb: number, xc: number, yc: number, xd: number, yd: number,
+  Xa: number, Ya: number, Xb: number, Yb: number, Xc: number, Yc: number, Xd: number, Yd: number,
 ): number {
-  const area1 = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
-  const area2 = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
+  const area1 = (Xb - Xa) * (Yd - Ya) - (Yb - Ya) * (Xd - Xa);
+  const area2 = (Xd - Xa) * (Yc - Ya) - (Yd - Ya) * (Xc - Xa);
   const flipped = (area1 < 0 ? 1 : 0) + (area2 < 0 ? 1 : 0);
-  const ok1 = area1 !== 0 && Number.isFinite(area1), ok2 = area2 !== 0 && Number.isFinite(area2);
-  if (!ok1 && !ok2) return flipped;
+  if (area1 === 0 && area2 === 0) return flipped;
   const W = t.width, H = t.height;
-  let minX = Math.ceil(Math.min(Math.min(xa, xb), Math.min(xc, xd))), maxX = Math.floor(Math.max(Math.max(xa, xb), Math.max(xc, xd)));
-  let minY = Math.ceil(Math.min(Math.min(ya, yb), Math.min(yc, yd))), maxY = Math.floor(Math.max(Math.max(ya, yb), Math.max(yc, yd)));
+  let lo = Xa < Xb ? Xa : Xb, hi = Xa < Xb ? Xb : Xa;
+  if (Xc < lo) lo = Xc; else if (Xc > hi) hi = Xc;
+  if (Xd < lo) lo = Xd; else if (Xd > hi) hi = Xd;
+  let minX = (lo + SNAP - 1) >> 8, maxX = hi >> 8;
+  lo = Ya < Yb ? Ya : Yb;
+  hi = Ya < Yb ? Yb : Ya;
+  if (Yc < lo) lo = Yc; else if (Yc > hi) hi = Yc;
+  if (Yd < lo) lo = Yd; else if (Yd > hi) hi = Yd;
+  let minY = (lo + SNAP - 1) >> 8, maxY = hi >> 8;
   if (minX < 0) minX = 0;
   if (minY < 0) minY = 0;
   if (maxX > W - 1) maxX = W - 1;
@@ -379,8 +411,9 @@ export function rasterUnitCell(
   if (minX > maxX || minY > maxY) return flipped;
   if ((maxX - minX + 1) * (maxY - minY + 1) > 16) {
     // A stretched cell: the per-triangle scan is cheaper than testing its whole box.
-    if (ok1) rasterTriangle(t, area1 > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, u0, v0, u0 + 1, v0, u0 + 1, v0 + 1);
-    if (ok2) rasterTriangle(t, area2 > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, u0, v0, u0 + 1, v0 + 1, u0, v0 + 1);
+    const s = 1 / SNAP;
+    if (area1 !== 0) rasterTriangleSnapped(t, area1 > 0 ? 2 : 1, Xa * s, Ya * s, Xb * s, Yb * s, Xd * s, Yd * s, u0, v0, u0 + 1, v0, u0 + 1, v0 + 1, null);
+    if (area2 !== 0) rasterTriangleSnapped(t, area2 > 0 ? 2 : 1, Xa * s, Ya * s, Xd * s, Yd * s, Xc * s, Yc * s, u0, v0, u0 + 1, v0 + 1, u0, v0 + 1, null);
     return flipped;
   }
   const { map, owner, fold } = t;
@@ -388,20 +421,22 @@ export function rasterUnitCell(
   const p1 = area1 > 0 ? 2 : 1, p2 = area2 > 0 ? 2 : 1;
   const i1 = 1 / area1, i2 = 1 / area2;
   for (let py = minY; py <= maxY; py++) {
+    const PY = py * SNAP;
     for (let px = minX; px <= maxX; px++) {
-      const ead = edge(xa, ya, xd, yd, px, py);
+      const PX = px * SNAP;
+      const ead = (Xd - Xa) * (PY - Ya) - (Yd - Ya) * (PX - Xa);
       // Triangle (a, b, d): edges a → b, b → d, d → a (= −ead).
-      if (ok1) {
-        const eab = edge(xa, ya, xb, yb, px, py);
-        if (covers(eab, s1, xa, ya, xb, yb)) {
-          const ebd = edge(xb, yb, xd, yd, px, py);
-          if (covers(ebd, s1, xb, yb, xd, yd) && covers(-ead, s1, xd, yd, xa, ya)) {
+      if (area1 !== 0) {
+        const eab = (Xb - Xa) * (PY - Ya) - (Yb - Ya) * (PX - Xa);
+        if (coversSnapped(eab, s1, Xa, Ya, Xb, Yb)) {
+          const ebd = (Xd - Xb) * (PY - Yb) - (Yd - Yb) * (PX - Xb);
+          if (coversSnapped(ebd, s1, Xb, Yb, Xd, Yd) && coversSnapped(-ead, s1, Xd, Yd, Xa, Ya)) {
             const p = py * W + px;
             const ow = owner[p]!;
             if (ow !== 0) fold[p] = 1;
             if (p1 > ow) {
               owner[p] = p1;
-              // Weights: a ← ebd, b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
+              // Weights: b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
               const wb = -ead * i1, wd = eab * i1;
               map[2 * p] = u0 + wb + wd;
               map[2 * p + 1] = v0 + wd;
@@ -410,17 +445,17 @@ export function rasterUnitCell(
         }
       }
       // Triangle (a, d, c): edges a → d, d → c, c → a.
-      if (ok2 && covers(ead, s2, xa, ya, xd, yd)) {
-        const edc = edge(xd, yd, xc, yc, px, py);
-        if (covers(edc, s2, xd, yd, xc, yc)) {
-          const eca = edge(xc, yc, xa, ya, px, py);
-          if (covers(eca, s2, xc, yc, xa, ya)) {
+      if (area2 !== 0 && coversSnapped(ead, s2, Xa, Ya, Xd, Yd)) {
+        const edc = (Xc - Xd) * (PY - Yd) - (Yc - Yd) * (PX - Xd);
+        if (coversSnapped(edc, s2, Xd, Yd, Xc, Yc)) {
+          const eca = (Xa - Xc) * (PY - Yc) - (Ya - Yc) * (PX - Xc);
+          if (coversSnapped(eca, s2, Xc, Yc, Xa, Ya)) {
             const p = py * W + px;
             const ow = owner[p]!;
             if (ow !== 0) fold[p] = 1;
             if (p2 > ow) {
               owner[p] = p2;
-              // Weights: a ← edc, d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
+              // Weights: d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
               const wd = eca * i2, wc = ead * i2;
               map[2 * p] = u0 + wd;
               map[2 * p + 1] = v0 + wd + wc;
