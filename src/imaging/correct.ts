@@ -14,7 +14,7 @@ import type { ResolvedScene } from './scene.js';
 import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
 import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
-import { flatContext, referencePoint } from './flat.js';
+import { flatContext, referencePoint, referencePointTabulated } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
 import { rasterTriangleSnapped, rasterUnitCellSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
@@ -469,6 +469,9 @@ function traceMesh(
   const hit = new Float64Array(6);
   const res = new Float64Array(6);
   const NV = vstat.length;
+  // Scene points on the tabulated plane (a plane target seen through flat water by a
+  // central camera) take the short path.
+  const tabulated = fl.table !== null && ctx.scene.kind === 1 && Math.abs(ctx.scene.z - fl.planeZ) <= 1e-12 * (1 + Math.abs(fl.planeZ));
   let traced = 0;
   let tPrev = NaN, tPrev2 = NaN;
   for (let k = 0; k < NV; k++) {
@@ -483,7 +486,7 @@ function traceMesh(
         tPrev = hit[0]!;
       } else tPrev = tPrev2 = NaN;
       if (tHit !== null) tHit[k] = hit[0]!;
-      if (st === S_OK) st = referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
+      if (st === S_OK) st = tabulated ? referencePointTabulated(fl, res[0]!, res[1]!, cpts, a) : referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
     }
     if (st !== S_OK) {
       cpts[a] = 0;

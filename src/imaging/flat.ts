@@ -188,3 +188,31 @@ export function referencePoint(f: FlatContext, a: number, b: number, c: number, 
   out[o + 2] = m[2] * wx + m[5] * wy + m[8] * wz;
   return S_OK;
 }
+
+/**
+ * @internal {@link referencePoint} for the common case it tabulates (central camera, flat
+ * water, a plane scene at the table's height): the same numbers, with the table's cubic
+ * Hermite interpolation inlined and the rest of the cases left out. Falls back to
+ * {@link referencePoint} beyond the table.
+ */
+export function referencePointTabulated(f: FlatContext, a: number, b: number, out: Float64Array, o: number): number {
+  const tb = f.table!;
+  const C = f.pose.position, m = f.pose.rotation;
+  const cx = C[0], cy = C[1], cz = C[2];
+  const ex = a - cx, ey = b - cy;
+  const rho = Math.sqrt(ex * ex + ey * ey);
+  let s = 0;
+  if (rho > 0) {
+    const x = rho / f.tableStep;
+    const k = Math.floor(x);
+    if (!(k < TABLE_SIZE - 1)) return referencePoint(f, a, b, f.planeZ, out, o);
+    const h = f.tableStep, t = x - k, t2 = t * t, t3 = t2 * t;
+    const p0 = tb[2 * k]!, m0 = tb[2 * k + 1]!, p1 = tb[2 * k + 2]!, m1 = tb[2 * k + 3]!;
+    s = ((2 * t3 - 3 * t2 + 1) * p0 + (t3 - 2 * t2 + t) * h * m0 + (-2 * t3 + 3 * t2) * p1 + (t3 - t2) * h * m1) / rho;
+  }
+  const wx = s * ex, wy = s * ey, wz = f.level - cz;
+  out[o] = m[0] * wx + m[3] * wy + m[6] * wz;
+  out[o + 1] = m[1] * wx + m[4] * wy + m[7] * wz;
+  out[o + 2] = m[2] * wx + m[5] * wy + m[8] * wz;
+  return S_OK;
+}

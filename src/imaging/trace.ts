@@ -116,8 +116,9 @@ export function traceContext(
  * When `|dz| > maxSlope·|d_xy|` the clearance `g(t) = z(t) − h(x(t), y(t))` is strictly
  * monotone along the ray (its derivative `dz − p·dx − q·dy` cannot vanish), so there is
  * at most one crossing inside the bounds box and a safeguarded Newton iteration finds it
- * from the crossing of the mean level. Otherwise the general marching intersector of the
- * surface area is used.
+ * from the crossing of the mean level (or from `guess`, tried first on its own: a root it
+ * reaches in front of the ray's origin over the domain is that only crossing).
+ * Otherwise the general marching intersector of the surface area is used.
  */
 export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, res: Float64Array, guess = NaN): number {
   const s = ctx.surface!;
@@ -133,6 +134,23 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
     res[4] = -h.normal[0] / h.normal[2];
     res[5] = -h.normal[1] / h.normal[2];
     return S_OK;
+  }
+  const grad = ctx.grad;
+  const tol = ctx.tol;
+  if (guess === guess) {
+    // Warm start: with g monotone along the ray, a root in front of the camera whose
+    // point lies over the domain is the only crossing, so a few Newton steps from a good
+    // guess settle it without the bounds box.
+    let t = guess;
+    for (let it = 0; it < 3; it++) {
+      const x = ox + t * dx, y = oy + t * dy;
+      const g = oz + t * dz - s.heightGradient(x, y, grad);
+      if (Math.abs(g) <= tol) {
+        if (t >= 0 && x >= b.xMin && x <= b.xMax && y >= b.yMin && y <= b.yMax) return finish(ox, oy, oz, dx, dy, dz, t, grad, res);
+        break;
+      }
+      t -= g / (dz - (grad[0]! * dx + grad[1]! * dy));
+    }
   }
   // Clip to the bounds box (slab method), t ≥ 0.
   let t0 = 0, t1 = Infinity;
@@ -155,8 +173,6 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
     if (c < t1) t1 = c;
   }
   if (!(t0 <= t1)) return S_MISS;
-  const grad = ctx.grad;
-  const tol = ctx.tol;
   // Newton from the crossing of the mean level, kept inside [t0, t1]. With g monotone, a
   // root found inside the interval is the only crossing.
   let t = guess >= t0 && guess <= t1 ? guess : (0.5 * (b.zMin + b.zMax) - oz) / dz;
