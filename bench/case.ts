@@ -21,6 +21,12 @@ export interface BenchCase {
   quickSize: number;
   /** Timed runs at full size. @defaultValue 5 */
   iterations?: number;
+  /**
+   * Untimed calls before the timed runs at full size, so the figure is the steady state
+   * of a function called every frame (V8 optimises a kernel over its first few calls;
+   * the numpy peers have no such warm-up). @defaultValue 1
+   */
+  warmup?: number;
   /** Build inputs at the given size (not timed). */
   prepare(size: number): PreparedCase | Promise<PreparedCase>;
 }

@@ -40,7 +40,7 @@ async function runCase(c: BenchCase, quick: boolean, repeat: number | undefined)
   const prepared = await c.prepare(size);
   let last: unknown;
   const iterations = repeat ?? (quick ? 2 : (c.iterations ?? 5));
-  const bench = new Bench({ iterations, time: 0, warmup: true, warmupIterations: 1, warmupTime: 0 });
+  const bench = new Bench({ iterations, time: 0, warmup: true, warmupIterations: quick ? 1 : (c.warmup ?? 1), warmupTime: 0 });
   bench.add(c.name, () => {
     last = prepared.run();
   });

@@ -63,7 +63,7 @@ class DctSolver implements PreparedDctPoisson {
     for (let k = 0; k < w; k++) this.lamX[k] = (2 - 2 * Math.cos((Math.PI * k) / w)) / (dx * dx);
     this.lamY = new Float64Array(h);
     for (let k = 0; k < h; k++) this.lamY[k] = (2 - 2 * Math.cos((Math.PI * k) / h)) / (dy * dy);
-    this.block = new Float64Array(COL_BLOCK * colStride(h));
+    this.block = new Float64Array(COL_BLOCK * h);
   }
 
   solve(p: Grid, q: Grid, options?: DctPoissonFrameOptions): IntegrationResult {
@@ -190,48 +190,17 @@ function residualRows(z: Float64Array, pd: Float64Array, qd: Float64Array, w: nu
   return s;
 }
 
-/** Columns per tile of the column passes. */
+/** Columns per strip of the column pass. */
 const COL_BLOCK = 32;
 
 /**
- * Doubles per column of the tile: the height plus one cache line, so that columns a
- * power of two apart do not fall in the same cache sets.
+ * Along y, per strip of columns: DCT-II, divide by the eigenvalues of the Neumann
+ * Laplacian (the zero frequency, the piston, set to 0: its eigenvalue is 0) and
+ * transform back, all in the strip's work tile ({@link FastDct.solveStrip}), so each
+ * strip stays in cache for the three steps.
  */
-function colStride(h: number): number {
-  return h + 8;
-}
-
-/**
- * Along y, per tile of columns: gather the tile into contiguous sequences, DCT-II them
- * two at a time, divide by the eigenvalues of the Neumann Laplacian (the zero frequency,
- * the piston, set to 0: its eigenvalue is 0), transform back and scatter. Fusing the solve into the column
- * pass keeps each tile in cache for all three steps.
- */
-function columnSolve(
-  out: Float64Array,
-  w: number,
-  h: number,
-  dct: FastDct,
-  blk: Float64Array,
-  lx: Float64Array,
-  ly: Float64Array,
-): void {
-  const cs = colStride(h);
-  for (let i0 = 0; i0 < w; i0 += COL_BLOCK) {
-    const nb = Math.min(COL_BLOCK, w - i0);
-    for (let j = 0; j < h; j++) {
-      const s = j * w + i0;
-      for (let c = 0, t = j; c < nb; c++, t += cs) blk[t] = out[s + c]!;
-    }
-    for (let c = 0; c < nb; c += 2) {
-      const two = c + 1 < nb;
-      dct.solvePair(blk, c * cs, two ? (c + 1) * cs : -1, 1, lx[i0 + c]!, two ? lx[i0 + c + 1]! : 0, ly);
-    }
-    for (let j = 0; j < h; j++) {
-      const s = j * w + i0;
-      for (let c = 0, t = j; c < nb; c++, t += cs) out[s + c] = blk[t]!;
-    }
-  }
+function columnSolve(out: Float64Array, w: number, h: number, dct: FastDct, blk: Float64Array, lx: Float64Array, ly: Float64Array): void {
+  for (let i0 = 0; i0 < w; i0 += COL_BLOCK) dct.solveStrip(out, w, i0, Math.min(COL_BLOCK, w - i0), lx, ly, blk);
 }
 
 /**

@@ -1,6 +1,6 @@
 /**
  * Fast transforms on typed arrays for the transform-based integrators: complex FFTs of
- * any length (the library's radix-4 kernel, `fft-kernel.ts`, for powers of two;
+ * any length (the library's radix-4 kernel, `core/fft-kernel.ts`, for powers of two;
  * Bluestein's chirp-z algorithm on top of it for every other length), fast DCT-II /
  * DCT-III of any length by Makhoul's reordering, and a cache-blocked transpose. Complex
  * data is interleaved `re, im, re, im, …` in `Float64Array`s; nothing allocates per
@@ -11,7 +11,7 @@
  * @module
  * @internal
  */
-import { Pow2Fft } from './fft-kernel.js';
+import { Pow2Fft } from '../core/fft-kernel.js';
 
 /**
  * A plan for the complex DFT of one length. Not re-entrant: it owns scratch buffers.
@@ -36,6 +36,7 @@ export class ComplexFft {
   private readonly kernel: Float64Array | null; // FFT of conj(w) arranged circularly, times 1/m
   private readonly a: Float64Array | null;
   private readonly b: Float64Array | null;
+  private readonly c: Float64Array | null;
 
   constructor(n: number) {
     this.n = n;
@@ -44,7 +45,7 @@ export class ComplexFft {
       this.order = this.pow2.rev;
       this.m = n;
       this.inner = null;
-      this.chirp = this.kernel = this.a = this.b = null;
+      this.chirp = this.kernel = this.a = this.b = this.c = null;
       return;
     }
     this.pow2 = null;
@@ -82,6 +83,7 @@ export class ComplexFft {
     this.kernel = bk;
     this.a = new Float64Array(2 * m);
     this.b = new Float64Array(2 * n);
+    this.c = new Float64Array(2 * n);
   }
 
   /** Forward DFT `X[k] = Σ x[j] e^{-2πi jk/n}`; `out` and `input` must differ (length 2n). */
@@ -118,6 +120,44 @@ export class ComplexFft {
   toOrder(x: Float64Array, off: number, inverse: boolean): void {
     if (this.pow2) this.pow2.toOrder(x, off, inverse);
     else this.bluesteinInPlace(x, off, inverse);
+  }
+
+  /**
+   * {@link ComplexFft.fromOrder} on a strip of `nc` complex columns of a row-major array
+   * (row r at double offset `off + r·rs`, `nc` interleaved complex values per row): each
+   * column's element j at row `order[j]`, its `X[k]` left at row k. Powers of two run
+   * along the rows without gathering; other lengths gather one column at a time.
+   */
+  stripFromOrder(x: Float64Array, off: number, rs: number, nc: number, inverse: boolean): void {
+    if (this.pow2) this.pow2.stripFromOrder(x, off, rs, nc, inverse);
+    else this.bluesteinStrip(x, off, rs, nc, inverse);
+  }
+
+  /**
+   * {@link ComplexFft.toOrder} on a strip (layout as {@link ComplexFft.stripFromOrder}):
+   * element j at row j, `X[k]` left at row `order[k]`.
+   */
+  stripToOrder(x: Float64Array, off: number, rs: number, nc: number, inverse: boolean): void {
+    if (this.pow2) this.pow2.stripToOrder(x, off, rs, nc, inverse);
+    else this.bluesteinStrip(x, off, rs, nc, inverse);
+  }
+
+  private bluesteinStrip(x: Float64Array, off: number, rs: number, nc: number, inverse: boolean): void {
+    const n = this.n;
+    const b = this.b!;
+    const c = this.c!;
+    for (let col = 0; col < nc; col++) {
+      const o = off + 2 * col;
+      for (let r = 0, s = o; r < n; r++, s += rs) {
+        b[2 * r] = x[s]!;
+        b[2 * r + 1] = x[s + 1]!;
+      }
+      this.bluestein(c, 0, b, 0, inverse);
+      for (let r = 0, s = o; r < n; r++, s += rs) {
+        x[s] = c[2 * r]!;
+        x[s + 1] = c[2 * r + 1]!;
+      }
+    }
   }
 
   private bluesteinInPlace(x: Float64Array, off: number, inverse: boolean): void {
@@ -371,6 +411,94 @@ export class FastDct {
       const d = pos[n - 1 - j]!;
       data[ra + s] = z[d]!;
       data[rb + s] = z[d + 1]!;
+    }
+  }
+
+  /**
+   * The diagonal solve of {@link FastDct.solvePair} along the columns of a row-major
+   * real array, for `nb` adjacent columns at once: columns `i0 … i0+nb−1` of `data`
+   * (row r at `r·w`); coefficient k of column `i0 + c` is divided by `lx[i0 + c] + lam[k]`
+   * (zero divisor → zero coefficient). The columns are packed two to a complex value in
+   * `tile` (at least `n · 2⌈nb/2⌉` doubles), each row copied whole into the row that the
+   * even/odd reordering and the transform's storage order give it, and transformed along
+   * the tile's rows (the FFT kernel's strip form), so nothing is transposed.
+   */
+  solveStrip(data: Float64Array, w: number, i0: number, nb: number, lx: Float64Array, lam: Float64Array, tile: Float64Array): void {
+    const n = this.n;
+    const nc = (nb + 1) >> 1;
+    const ts = 2 * nc;
+    const pos = this.pos;
+    // sample y goes to reordered element e: 2e = y (even y), 2(n − 1 − e) + 1 = y (odd y)
+    for (let y = 0; y < n; y++) {
+      const e = (y & 1) === 0 ? y >> 1 : n - 1 - (y >> 1);
+      const d = (pos[e]! >> 1) * ts;
+      const s = y * w + i0;
+      for (let c = 0; c < nb; c++) tile[d + c] = data[s + c]!;
+      if (nb & 1) tile[d + nb] = 0;
+    }
+    this.fft.stripFromOrder(tile, 0, ts, nc, false);
+    const tw = this.tw;
+    const ti = this.twInv;
+    // k = 0: X = Re Z / Im Z, V = X / n
+    for (let c = 0; c < nc; c++) {
+      const da = lx[i0 + 2 * c]! + lam[0]!;
+      // a missing partner column (odd nb) is zero and borrows its neighbour's divisors
+      const db = (2 * c + 1 < nb ? lx[i0 + 2 * c + 1]! : lx[i0 + 2 * c]!) + lam[0]!;
+      tile[2 * c] = da !== 0 ? tile[2 * c]! / (da * n) : 0;
+      tile[2 * c + 1] = db !== 0 ? tile[2 * c + 1]! / (db * n) : 0;
+    }
+    // rows k and n − k: coefficients from Z[k], Z[n − k], divided, and V[k], V[n − k] of
+    // the inverse written over them (as in solvePair, one complex column at a time)
+    for (let k = 1; 2 * k <= n; k++) {
+      const m = n - k;
+      const ok = k * ts;
+      const om = m * ts;
+      const ckr = tw[2 * k]!;
+      const cki = tw[2 * k + 1]!;
+      const cmr = tw[2 * m]!;
+      const cmi = tw[2 * m + 1]!;
+      const er = ti[2 * k]!;
+      const ei = ti[2 * k + 1]!;
+      const fr = ti[2 * m]!;
+      const fi = ti[2 * m + 1]!;
+      const lk = lam[k]!;
+      const lm = lam[m]!;
+      for (let c = 0; c < nc; c++) {
+        const la = lx[i0 + 2 * c]!;
+        const lb = 2 * c + 1 < nb ? lx[i0 + 2 * c + 1]! : la;
+        const Ar = tile[ok + 2 * c]!;
+        const Ai = tile[ok + 2 * c + 1]!;
+        const Br = tile[om + 2 * c]!;
+        const Bi = tile[om + 2 * c + 1]!;
+        const sr = Ar + Br;
+        const di = Ai - Bi;
+        const si = Ai + Bi;
+        const dr = Ar - Br;
+        const dak = la + lk;
+        const dbk = lb + lk;
+        const xak = dak !== 0 ? (0.5 * (ckr * sr + cki * di)) / dak : 0;
+        const xbk = dbk !== 0 ? (0.5 * (ckr * si - cki * dr)) / dbk : 0;
+        if (m === k) {
+          tile[ok + 2 * c] = er * xak + ei * xak - (ei * xbk - er * xbk);
+          tile[ok + 2 * c + 1] = ei * xak - er * xak + (er * xbk + ei * xbk);
+          continue;
+        }
+        const dam = la + lm;
+        const dbm = lb + lm;
+        const xam = dam !== 0 ? (0.5 * (cmr * sr - cmi * di)) / dam : 0;
+        const xbm = dbm !== 0 ? (0.5 * (cmr * si + cmi * dr)) / dbm : 0;
+        tile[ok + 2 * c] = er * xak + ei * xam - (ei * xbk - er * xbm);
+        tile[ok + 2 * c + 1] = ei * xak - er * xam + (er * xbk + ei * xbm);
+        tile[om + 2 * c] = fr * xam + fi * xak - (fi * xbm - fr * xbk);
+        tile[om + 2 * c + 1] = fi * xam - fr * xak + (fr * xbm + fi * xbk);
+      }
+    }
+    this.fft.stripToOrder(tile, 0, ts, nc, true);
+    for (let y = 0; y < n; y++) {
+      const e = (y & 1) === 0 ? y >> 1 : n - 1 - (y >> 1);
+      const d = (pos[e]! >> 1) * ts;
+      const s = y * w + i0;
+      for (let c = 0; c < nb; c++) data[s + c] = tile[d + c]!;
     }
   }
 

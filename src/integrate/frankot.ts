@@ -6,7 +6,7 @@
  */
 import { checkAllocation, checkOptions, createGrid, typeError } from '../core/index.js';
 import type { Grid, GridSpec } from '../core/index.js';
-import { checkSlopes, checkSolverSpec, fullMask, outBuffer, pairRmsFull } from './common.js';
+import { checkSlopes, checkSolverSpec, fullMask, outBuffer } from './common.js';
 import { ComplexFft } from './fft.js';
 import type { IntegrationResult } from './types.js';
 
@@ -24,7 +24,8 @@ export interface FrankotChellappaFrameOptions {
 
 /**
  * A Frankot–Chellappa integrator set up once for a grid size and spacing (FFT plans,
- * frequency tables, one complex work array), to integrate frame after frame.
+ * frequency tables; one complex work array made on the first frame and kept), to
+ * integrate frame after frame.
  * Create with {@link prepareFrankotChellappa}.
  */
 export interface PreparedFrankotChellappa {
@@ -50,6 +51,9 @@ function angularFrequencies(n: number, d: number): Float64Array {
   return w;
 }
 
+/** Columns per strip of the column transforms. */
+const STRIP = 16;
+
 class FcSolver implements PreparedFrankotChellappa {
   readonly width: number;
   readonly height: number;
@@ -63,14 +67,13 @@ class FcSolver implements PreparedFrankotChellappa {
   /** ω² including Nyquist, for the denominator. */
   private readonly wx2: Float64Array;
   private readonly wy2: Float64Array;
-  /** Positions (in doubles) of element i in the row / column transforms' storage order. */
-  private readonly posW: Int32Array;
-  private readonly posH: Int32Array;
-  private readonly spec: Float64Array;
-  private readonly tA: Float64Array;
-  /** Column tile: COL_BLOCK columns and their partners, 2·height doubles each. */
-  private readonly tile: Float64Array;
-  private readonly tileCols: Int32Array;
+  /** `negW[c]`: the storage position of −kx when position c holds kx (rows of the spectrum). */
+  private readonly negW: Int32Array;
+  /** Doubles per row of the spectrum: 2·width plus one cache line (see {@link FcSolver.run}). */
+  private readonly rs: number;
+  private spec: Float64Array | null = null;
+  /** Work rows for the odd-width case, where the packed pairs need one column more than `out` has. */
+  private pack: Float64Array | null = null;
 
   constructor(w: number, h: number, dx: number, dy: number) {
     this.width = w;
@@ -87,12 +90,10 @@ class FcSolver implements PreparedFrankotChellappa {
     this.ay = wy.slice();
     if (w % 2 === 0) this.ax[w / 2] = 0;
     if (h % 2 === 0) this.ay[h / 2] = 0;
-    this.posW = this.fftW.order.map((v) => 2 * v);
-    this.posH = this.fftH.order.map((v) => 2 * v);
-    this.spec = new Float64Array(2 * w * h);
-    this.tA = new Float64Array(2 * w);
-    this.tile = new Float64Array(2 * COL_BLOCK * slotStride(h));
-    this.tileCols = new Int32Array(2 * COL_BLOCK);
+    const oW = this.fftW.order;
+    this.negW = new Int32Array(w);
+    for (let c = 0; c < w; c++) this.negW[c] = oW[(w - oW[c]!) % w]!;
+    this.rs = 2 * w + 8;
   }
 
   solve(p: Grid, q: Grid, options?: FrankotChellappaFrameOptions): IntegrationResult {
@@ -113,28 +114,54 @@ class FcSolver implements PreparedFrankotChellappa {
     return solver.#run(p, q, out);
   }
 
+  /**
+   * The transform, transpose-free: the spectrum S (rows padded by one cache line so that
+   * the rows of a column strip do not share cache sets) is
+   * 1. S = p + i q, transformed along y in strips of columns (rows left in the y
+   *    transform's storage order);
+   * 2. per pair of rows {ky, −ky}: both transformed along x, projected onto the
+   *    integrable fields (row ky ≤ h/2 only, the rest follows by Hermitian symmetry) and
+   *    row ky inverse-transformed along x while it is in cache;
+   * 3. the inverse along y of two real output columns at a time, g(·, 2c) + i g(·, 2c+1),
+   *    packed straight into `out` (each packed row is one output row) and transformed
+   *    there in strips.
+   */
   #run(p: Grid, q: Grid, out: Float64Array): IntegrationResult {
     const w = this.width;
     const h = this.height;
+    const rs = this.rs;
     const pd = p.data;
     const qd = q.data;
-    const S = this.spec;
-    // 1. rows of Z = FFT(p + i q): both real fields in one complex transform
-    forwardRows(pd, qd, w, h, this.fftW, this.posW, S);
-    // 2. per tile of columns 0 … ⌊w/2⌋ and their partners: FFT along y, project onto
-    //    the integrable fields, inverse along y of the tile's own columns (H is
-    //    Hermitian, so the other half is never formed)
-    for (let a = 0; a <= w >> 1; a += COL_BLOCK) {
-      const b = Math.min((w >> 1) + 1, a + COL_BLOCK);
-      columnTile(S, w, h, a, b, this.fftH, this.posH, this.tile, this.tileCols, this.ax, this.ay, this.wx2, this.wy2);
+    const S = (this.spec ??= new Float64Array(h * rs));
+    const fW = this.fftW;
+    const fH = this.fftH;
+    // 1. S = p + i q, then along y
+    loadSpectrum(pd, qd, w, h, rs, S);
+    for (let c0 = 0; c0 < w; c0 += STRIP) fH.stripToOrder(S, 2 * c0, rs, Math.min(STRIP, w - c0), false);
+    // 2. rows: ky at storage row oH[ky]
+    const oH = fH.order;
+    const scale = 1 / (w * h);
+    for (let ky = 0; 2 * ky <= h; ky++) {
+      const r = oH[ky]! * rs;
+      const rm = oH[(h - ky) % h]! * rs;
+      fW.toOrder(S, r, false);
+      if (rm !== r) fW.toOrder(S, rm, false);
+      project(S, r, rm, w, this.negW, fW.order, this.ax, this.wx2, this.ay[ky]!, this.wy2[ky]!, scale);
+      fW.fromOrder(S, r, true);
     }
-    // 3. inverse along x, two real rows at a time
-    inverseRows(S, w, h, this.fftW, this.posW, this.tA, out);
+    // 3. pack two output columns per complex value, row ky at storage row oH[ky], then
+    //    along y; an odd width needs one column more than `out` has, so a work array
+    const pw = (w + 1) >> 1;
+    const ps = 2 * pw;
+    const T = ps === w ? out : (this.pack ??= new Float64Array(h * ps));
+    packColumns(S, rs, w, h, oH, T, ps);
+    for (let c0 = 0; c0 < pw; c0 += STRIP) fH.stripFromOrder(T, 2 * c0, ps, Math.min(STRIP, pw - c0), true);
+    if (T !== out) unpack(T, ps, w, h, out);
     const height = createGrid(p, out);
     return {
       height,
       mask: fullMask(w * h),
-      rmsResidual: pairRmsFull(out, pd, qd, w, h, this.dx, this.dy),
+      rmsResidual: pairRms(out, pd, qd, w, h, this.dx, this.dy),
       iterations: 0,
       converged: true,
       relativeResidual: 0,
@@ -144,163 +171,134 @@ class FcSolver implements PreparedFrankotChellappa {
   }
 }
 
-/** Rows of S = FFT_x(p + i q), each written in the transform's storage order and transformed in place. */
-function forwardRows(pd: Float64Array, qd: Float64Array, w: number, h: number, fft: ComplexFft, pos: Int32Array, S: Float64Array): void {
+/** Row j of S (row stride rs doubles) = row j of p + i·(row j of q). */
+function loadSpectrum(pd: Float64Array, qd: Float64Array, w: number, h: number, rs: number, S: Float64Array): void {
   for (let j = 0; j < h; j++) {
     const row = j * w;
-    const base = 2 * row;
-    // the storage order is an involution: position i holds element order[i]
-    for (let i = 0, d = base; i < w; i++, d += 2) {
-      const e = row + (pos[i]! >> 1);
-      S[d] = pd[e]!;
-      S[d + 1] = qd[e]!;
+    const base = j * rs;
+    for (let i = 0; i < w; i++) {
+      S[base + 2 * i] = pd[row + i]!;
+      S[base + 2 * i + 1] = qd[row + i]!;
     }
-    fft.fromOrder(S, base, false);
   }
 }
 
-/** Columns per tile of the column pass (each tile also holds the partner columns). */
-const COL_BLOCK = 16;
-
 /**
- * Doubles per column slot of the tile: 2·height plus one cache line, so that slots a
- * power of two apart do not fall in the same cache sets.
+ * Pack the x-inverse rows g(ky, ·) (ky ≤ h/2 at S row oH[ky]; the others by
+ * g(−ky, x) = conj g(ky, x)) two output columns to a complex value,
+ * T(ky, c) = g(ky, 2c) + i g(ky, 2c+1), row ky at T row oH[ky] (row stride ps).
  */
-function slotStride(h: number): number {
-  return 2 * h + 8;
+function packColumns(S: Float64Array, rs: number, w: number, h: number, oH: Int32Array, T: Float64Array, ps: number): void {
+  for (let ky = 0; ky < h; ky++) {
+    const up = 2 * ky <= h;
+    const src = oH[up ? ky : h - ky]! * rs;
+    const dst = oH[ky]! * ps;
+    if (up) {
+      for (let c = 0; c < w >> 1; c++) {
+        const s = src + 4 * c;
+        T[dst + 2 * c] = S[s]! - S[s + 3]!;
+        T[dst + 2 * c + 1] = S[s + 1]! + S[s + 2]!;
+      }
+    } else {
+      for (let c = 0; c < w >> 1; c++) {
+        const s = src + 4 * c;
+        T[dst + 2 * c] = S[s]! + S[s + 3]!;
+        T[dst + 2 * c + 1] = S[s + 2]! - S[s + 1]!;
+      }
+    }
+    if (w & 1) {
+      const s = src + 2 * (w - 1);
+      T[dst + ps - 2] = S[s]!;
+      T[dst + ps - 1] = up ? S[s + 1]! : -S[s + 1]!;
+    }
+  }
+}
+
+/** Copy the first w doubles of each T row (stride ps) into `out`. */
+function unpack(T: Float64Array, ps: number, w: number, h: number, out: Float64Array): void {
+  for (let j = 0; j < h; j++) {
+    const s = j * ps;
+    const d = j * w;
+    for (let i = 0; i < w; i++) out[d + i] = T[s + i]!;
+  }
 }
 
 /**
- * Columns a … b−1 (within 0 … ⌊w/2⌋) of S: gather them and their partner columns
- * (w − kx) mod w into the tile (a tiled transpose, in the transform's storage order),
- * FFT along y, form
- * P = (Z(k) + conj Z(−k))/2, Q = (Z(k) − conj Z(−k))/(2i),
- * H = −i (ωx P + ωy Q)/(ωx² + ωy²) / (w·h) (the inverse's scale folded in),
- * inverse-FFT the tile's own columns and scatter them back. A column that is its own
- * partner (0 and w/2) is processed pairwise in ky so nothing is read after it is
- * overwritten.
+ * Project row ky (at double offset `ra`) of Z = FFT(p + i q) onto the integrable fields,
+ * with row −ky at `rm` (the same offset when ky is its own partner). Within a row,
+ * position c holds kx = `oW[c]` and `negW[c]` is the position of −kx. With
+ * P = (Z(k) + conj Z(−k))/2 and Q = (Z(k) − conj Z(−k))/(2i),
+ * H = −i (ωx P + ωy Q)/(ωx² + ωy²) · scale is written over row ky (the zero divisor,
+ * the piston, gives 0). A self-partnered row is done pairwise in kx so nothing is read
+ * after it is overwritten.
  */
-function columnTile(
+function project(
   S: Float64Array,
+  ra: number,
+  rm: number,
   w: number,
-  h: number,
-  a: number,
-  b: number,
-  fft: ComplexFft,
-  pos: Int32Array,
-  tile: Float64Array,
-  cols: Int32Array,
+  negW: Int32Array,
+  oW: Int32Array,
   ax: Float64Array,
-  ay: Float64Array,
   wx2: Float64Array,
-  wy2: Float64Array,
+  bk: number,
+  by2: number,
+  scale: number,
 ): void {
-  const nb = b - a;
-  const h2 = slotStride(h);
-  // slots 0 … nb−1: columns a … b−1; slot nb + c: the partner of column a + c unless
-  // the partner is itself in the tile (then it is not gathered twice)
-  let ns = nb;
-  for (let c = 0; c < nb; c++) cols[c] = a + c;
-  for (let c = 0; c < nb; c++) {
-    const pc = (w - a - c) % w;
-    if (pc >= a && pc < b) continue;
-    cols[ns++] = pc;
-  }
-  const w2 = 2 * w;
-  for (let j = 0; j < h; j++) {
-    const row = j * w2;
-    const d = pos[j]!;
-    for (let c = 0, t = d; c < ns; c++, t += h2) {
-      const s = row + 2 * cols[c]!;
-      tile[t] = S[s]!;
-      tile[t + 1] = S[s + 1]!;
-    }
-  }
-  for (let c = 0; c < ns; c++) fft.fromOrder(tile, c * h2, false);
-  const scale = 1 / (w * h);
-  let next = nb;
-  for (let c = 0; c < nb; c++) {
-    const kx = a + c;
-    const pc = (w - kx) % w;
-    const self = pc === kx;
-    let pslot: number;
-    if (pc >= a && pc < b) pslot = pc - a;
-    else pslot = next++;
-    const zo = c * h2;
-    const mo = pslot * h2;
+  const self = ra === rm;
+  const hs = 0.5 * scale;
+  for (let c = 0; c < w; c++) {
+    const cm = negW[c]!;
+    if (self && cm < c) continue;
+    const kx = oW[c]!;
+    const id = ra + 2 * c;
+    const ip = rm + 2 * cm;
+    const Zr = S[id]!;
+    const Zi = S[id + 1]!;
+    const Mr = S[ip]!;
+    const Mi = S[ip + 1]!;
     const ak = ax[kx]!;
-    const ax2 = wx2[kx]!;
-    for (let ky = 0; ky < h; ky++) {
-      const pr = ky === 0 ? 0 : h - ky;
-      if (self && pr < ky) continue;
-      const id = zo + 2 * ky;
-      const ip = mo + 2 * pr;
-      const Zr = tile[id]!;
-      const Zi = tile[id + 1]!;
-      const Mr = tile[ip]!;
-      const Mi = tile[ip + 1]!;
-      const bk = ay[ky]!;
-      const den = ax2 + wy2[ky]!;
-      let Hr = 0;
-      let Hi = 0;
-      if (den > 0) {
-        // S = a P + b Q with P = ((Zr+Mr)/2, (Zi−Mi)/2), Q = ((Zi+Mi)/2, −(Zr−Mr)/2)
-        const f = (0.5 * scale) / den;
-        Hr = f * (ak * (Zi - Mi) - bk * (Zr - Mr));
-        Hi = -f * (ak * (Zr + Mr) + bk * (Zi + Mi));
-      }
-      tile[id] = Hr;
-      tile[id + 1] = Hi;
-      if (self && pr !== ky) {
-        tile[ip] = Hr;
-        tile[ip + 1] = -Hi;
-      }
+    const den = wx2[kx]! + by2;
+    let Hr = 0;
+    let Hi = 0;
+    if (den > 0) {
+      // a P + b Q with P = ((Zr+Mr)/2, (Zi−Mi)/2), Q = ((Zi+Mi)/2, −(Zr−Mr)/2)
+      const f = hs / den;
+      Hr = f * (ak * (Zi - Mi) - bk * (Zr - Mr));
+      Hi = -f * (ak * (Zr + Mr) + bk * (Zi + Mi));
     }
-  }
-  for (let c = 0; c < nb; c++) fft.toOrder(tile, c * h2, true);
-  for (let j = 0; j < h; j++) {
-    const row = j * w2 + 2 * a;
-    const d = pos[j]!;
-    for (let c = 0, t = d; c < nb; c++, t += h2) {
-      const s = row + 2 * c;
-      S[s] = tile[t]!;
-      S[s + 1] = tile[t + 1]!;
+    S[id] = Hr;
+    S[id + 1] = Hi;
+    if (self && cm !== c) {
+      S[ip] = Hr;
+      S[ip + 1] = -Hi;
     }
   }
 }
 
 /**
- * Inverse along x of two Hermitian rows at a time: IFFT(G_a + i G_b) = g_a + i g_b
- * (unscaled: the 1/(w·h) is already in the spectrum).
+ * RMS misfit of the forward-difference pairs, `(h[i+1] − h[i])/dx` against the mean of
+ * the two end slopes (likewise along y), in one pass over the rows.
  */
-function inverseRows(S: Float64Array, w: number, h: number, fft: ComplexFft, pos: Int32Array, tA: Float64Array, out: Float64Array): void {
-  const half = w >> 1;
-  const w2 = 2 * w;
-  for (let j = 0; j < h; j += 2) {
-    const ra = 2 * j * w;
-    const two = j + 1 < h;
-    const rb = two ? ra + w2 : ra;
-    for (let kx = 0; kx <= half; kx++) {
-      const ar = S[ra + 2 * kx]!;
-      const ai = S[ra + 2 * kx + 1]!;
-      const br = two ? S[rb + 2 * kx]! : 0;
-      const bi = two ? S[rb + 2 * kx + 1]! : 0;
-      const d = pos[kx]!;
-      tA[d] = ar - bi;
-      tA[d + 1] = ai + br;
-      const m = w - kx;
-      if (kx > 0 && m > half) {
-        // G(−kx) = conj G(kx): conj(a) + i conj(b)
-        const e = pos[m]!;
-        tA[e] = ar + bi;
-        tA[e + 1] = br - ai;
+function pairRms(z: Float64Array, pd: Float64Array, qd: Float64Array, w: number, h: number, dx: number, dy: number): number {
+  const ix = 1 / dx;
+  const iy = 1 / dy;
+  let s = 0;
+  for (let j = 0; j < h; j++) {
+    const row = j * w;
+    for (let k = row, end = row + w - 1; k < end; k++) {
+      const e = (z[k + 1]! - z[k]!) * ix - 0.5 * (pd[k]! + pd[k + 1]!);
+      s += e * e;
+    }
+    if (j + 1 < h) {
+      for (let k = row, end = row + w; k < end; k++) {
+        const e = (z[k + w]! - z[k]!) * iy - 0.5 * (qd[k]! + qd[k + w]!);
+        s += e * e;
       }
     }
-    fft.fromOrder(tA, 0, true);
-    const row = j * w;
-    for (let i = 0; i < w; i++) out[row + i] = tA[2 * i]!;
-    if (two) for (let i = 0; i < w; i++) out[row + w + i] = tA[2 * i + 1]!;
   }
+  const count = (w - 1) * h + w * (h - 1);
+  return count > 0 ? Math.sqrt(s / count) : 0;
 }
 
 /**
@@ -335,7 +333,8 @@ export function prepareFrankotChellappa(spec: GridSpec): PreparedFrankotChellapp
  * slope (a tilt) is not periodic and is discarded with the zero frequency.
  * Cost: one complex 2-D FFT of `p + iq` forward and a Hermitian inverse, O(N log N);
  * powers of two are fastest, other sizes run through Bluestein's algorithm. Memory: the
- * output plus a complex array of 2N doubles. Piston: zero mean. Needs a full rectangle.
+ * output plus a complex array of 2N doubles (and, for an odd width, one real array of
+ * N + height doubles). Piston: zero mean. Needs a full rectangle.
  *
  * @param p - Slopes ∂h/∂x at the samples (unitless), finite everywhere.
  * @param q - Slopes ∂h/∂y at the samples, same size and geometry as `p`.

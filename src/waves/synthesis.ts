@@ -6,7 +6,6 @@
  *
  * @module
  */
-import FFT from 'fft.js';
 import {
   checkAllocation,
   checkBoolean,
@@ -22,6 +21,7 @@ import {
   typeError,
 } from '../core/index.js';
 import type { Grid, GridSpec } from '../core/index.js';
+import { Pow2Fft } from '../core/fft-kernel.js';
 import { createGridSurface } from '../surface/index.js';
 import type { GridInterpolation, Surface } from '../surface/index.js';
 import { groupSpeedOf, omegaOf } from './dispersion.js';
@@ -108,21 +108,26 @@ function checkPowerOfTwo(fn: string, parameter: string, value: unknown): number 
   return n;
 }
 
-/** Scratch buffers and FFT plans for one grid size. */
+/** Columns per strip of the column transforms. */
+const STRIP = 16;
+
+/**
+ * Scratch buffers and FFT plans for one grid size. The spectra are row-major with each
+ * row padded by one cache line (so that the rows of a column strip do not share cache
+ * sets); in `z` the columns are stored in the row transform's bit-reversed order.
+ */
 interface Workspace {
   W: number;
   H: number;
-  fftW: FFT;
-  fftH: FFT;
-  fftM: FFT;
+  fftW: Pow2Fft;
+  fftH: Pow2Fft;
+  /** Rows of `z`: 2W + 8 doubles. */
+  zs: number;
+  /** Rows of `qt`: 2(W/2 + 1) + 8 doubles. */
+  qs: number;
   z: Float64Array;
-  tmp: Float64Array;
   qt: Float64Array;
-  rowOut: Float64Array;
-  half: Float64Array;
-  halfOut: Float64Array;
-  twr: Float64Array;
-  twi: Float64Array;
+  row: Float64Array;
 }
 
 // The workspace of the last grid size used, shared by every prepared sea of that size
@@ -132,26 +137,18 @@ let lastWorkspace: Workspace | null = null;
 function workspace(W: number, H: number): Workspace {
   const c = lastWorkspace;
   if (c !== null && c.W === W && c.H === H) return c;
-  const twr = new Float64Array(W / 2);
-  const twi = new Float64Array(W / 2);
-  for (let k = 0; k < W / 2; k++) {
-    twr[k] = Math.cos((2 * Math.PI * k) / W);
-    twi[k] = Math.sin((2 * Math.PI * k) / W);
-  }
+  const zs = 2 * W + 8;
+  const qs = 2 * (W / 2 + 1) + 8;
   const ws: Workspace = {
     W,
     H,
-    fftW: new FFT(W),
-    fftH: new FFT(H),
-    fftM: new FFT(W / 2),
-    z: new Float64Array(2 * W * H),
-    tmp: new Float64Array(2 * W * H),
-    qt: new Float64Array(2 * (W / 2 + 1) * H),
-    rowOut: new Float64Array(2 * W),
-    half: new Float64Array(W),
-    halfOut: new Float64Array(W),
-    twr,
-    twi,
+    fftW: new Pow2Fft(W),
+    fftH: new Pow2Fft(H),
+    zs,
+    qs,
+    z: new Float64Array(zs * H),
+    qt: new Float64Array(qs * H),
+    row: new Float64Array(2 * W),
   };
   lastWorkspace = ws;
   return ws;
@@ -167,7 +164,7 @@ function workspace(W: number, H: number): Workspace {
  * mean (k = 0) and the Nyquist row and column are left empty.
  *
  * Memory: the sea holds its coefficients (16 bytes a sample); frames share one scratch
- * workspace (about 40 bytes a sample) kept for the last grid size used.
+ * workspace (about 24 bytes a sample) kept for the last grid size used.
  *
  * @param grid - Geometry: width and height powers of two (≥ 4), spacing dx (dy = dx by
  *   default), origin.
@@ -227,7 +224,7 @@ export function prepareRandomSea(grid: GridSpec, sea: SeaSpectrum, options?: Ran
   const kys = new Float64Array(H);
   for (let i = 0; i < W; i++) kxs[i] = (i < W / 2 ? i : i - W) * dkx;
   for (let j = 0; j < H; j++) kys[j] = (j < H / 2 ? j : j - H) * dky;
-  // Spectral arrays are x-major: wavenumber (i, j) (column i, row j) is at i·H + j.
+  // Spectral arrays are row-major: wavenumber (i, j) (column i, row j) is at j·W + i.
   const cre = new Float64Array(N);
   const cim = new Float64Array(N);
   // ω(k) per wavenumber, filled on the first frame at a non-zero time.
@@ -262,16 +259,16 @@ export function prepareRandomSea(grid: GridSpec, sea: SeaSpectrum, options?: Ran
       const k = Math.sqrt(k2);
       const w = omegaOf(k, disp);
       const nv = i !== 0 && j !== 0 ? 4 : 2;
-      vIdx[0] = i * H + j;
+      vIdx[0] = j * W + i;
       vKx[0] = kx;
       vKy[0] = ky;
-      vIdx[1] = in_ * H + jn;
+      vIdx[1] = jn * W + in_;
       vKx[1] = -kx;
       vKy[1] = -ky;
-      vIdx[2] = in_ * H + j;
+      vIdx[2] = j * W + in_;
       vKx[2] = -kx;
       vKy[2] = ky;
-      vIdx[3] = i * H + jn;
+      vIdx[3] = jn * W + i;
       vKx[3] = kx;
       vKy[3] = -ky;
       let F: number;
@@ -332,7 +329,6 @@ export function prepareRandomSea(grid: GridSpec, sea: SeaSpectrum, options?: Ran
     }
   }
 
-  const qCols = W / 2 + 1;
   const geometry = { width: W, height: H, dx, dy, x0, y0 };
 
   let ws = workspace(W, H);
@@ -362,22 +358,31 @@ export function prepareRandomSea(grid: GridSpec, sea: SeaSpectrum, options?: Ran
     return f;
   };
 
-  // z = Ĥ + i·(i kx Ĥ) and qt = i ky Ĥ for kx ≥ 0 (both x-major), with Ĥ the Hermitian
-  // part of c·e^(−iωt): IFFT(z) = h + i p and IFFT(i ky Ĥ) = q. Ĥ(−k) = conj Ĥ(k), so
-  // each pair {k, −k} is computed once.
+  // z = Ĥ + i·(i kx Ĥ) (all wavenumbers, column kx at the row transform's position of
+  // kx) and qt = i ky Ĥ (kx ≥ 0), with Ĥ the Hermitian part of c·e^(−iωt): IFFT(z) =
+  // h + i p and IFFT(qt, completed Hermitian) = q. Ĥ(−k) = conj Ĥ(k), so each pair
+  // {k, −k} is computed once: rows j and −j together, the self-mirrored rows (ky = 0
+  // and Nyquist) over half their columns.
   function fillSpectra(time: number): void {
-    const { z, qt } = ws;
-    for (let i = 0; i <= W / 2; i++) {
-      const im = i === 0 ? 0 : W - i;
-      const kx = kxs[i]!;
-      const kxm = kxs[im]!;
-      const edge = i === 0 || i === W / 2;
-      for (let j = 0; j < H; j++) {
-        // On the self-mirrored columns (kx = 0 and Nyquist) take half of the ro
-        if (edge && j > H / 2) break;
-        const jm = j === 0 ? 0 : H - j;
-        const a = i * H + j;
-        const b = im * H + jm;
+    const { z, qt, zs, qs } = ws;
+    const posW = ws.fftW.rev;
+    const hW = W / 2;
+    for (let j = 0; j <= H / 2; j++) {
+      const jm = j === 0 ? 0 : H - j;
+      const edge = j === 0 || j === H / 2;
+      const ky = kys[j]!;
+      const kym = kys[jm]!;
+      const ra = j * W;
+      const rb = jm * W;
+      const za = j * zs;
+      const zb = jm * zs;
+      const qa = j * qs;
+      const qb = jm * qs;
+      const iEnd = edge ? hW : W - 1;
+      for (let i = 0; i <= iEnd; i++) {
+        const im = i === 0 ? 0 : W - i;
+        const a = ra + i;
+        const b = rb + im;
         const ar = cre[a]!;
         const ai = cim[a]!;
         const br = cre[b]!;
@@ -394,117 +399,94 @@ export function prepareRandomSea(grid: GridSpec, sea: SeaSpectrum, options?: Ran
           hr = 0.5 * ((ar + br) * C + (ai + bi) * Sn);
           hi = 0.5 * ((ai - bi) * C + (br - ar) * Sn);
         }
-        const ky = kys[j]!;
-        const kym = kys[jm]!;
-        // Stored conjugated: a forward FFT of conj(Z) is conj of the unnormalised
-        // inverse, so no division is needed. Ĥ(−k) = (hr, −hi).
-        z[2 * a] = hr - kx * hr;
-        z[2 * a + 1] = kx * hi - hi;
-        z[2 * b] = hr - kxm * hr;
-        z[2 * b + 1] = hi - kxm * hi;
-        qt[2 * a] = -ky * hi;
-        qt[2 * a + 1] = -ky * hr;
-        if (im <= W / 2) {
-          qt[2 * b] = kym * hi;
-          qt[2 * b + 1] = -kym * hr;
+        const kx = kxs[i]!;
+        const kxm = kxs[im]!;
+        // Z(k) = (1 − kx) Ĥ(k); Z(−k) = (1 − kxm) conj Ĥ(k)
+        const pa = za + 2 * posW[i]!;
+        const pb = zb + 2 * posW[im]!;
+        z[pa] = hr - kx * hr;
+        z[pa + 1] = hi - kx * hi;
+        z[pb] = hr - kxm * hr;
+        z[pb + 1] = kxm * hi - hi;
+        // i ky Ĥ(k) and i kym conj Ĥ(k), where the column is in kx ≥ 0
+        if (i <= hW) {
+          qt[qa + 2 * i] = -ky * hi;
+          qt[qa + 2 * i + 1] = ky * hr;
+        }
+        if (im <= hW) {
+          qt[qb + 2 * im] = kym * hi;
+          qt[qb + 2 * im + 1] = kym * hr;
         }
       }
     }
   }
 
-  // ω(k), x-major.
+  // ω(k), row-major.
   function frequencies(): Float64Array {
     const w = new Float64Array(N);
-    for (let i = 0; i < W; i++) {
-      const kx = kxs[i]!;
-      for (let j = 0; j < H; j++) {
-        const ky = kys[j]!;
+    for (let j = 0; j < H; j++) {
+      const ky = kys[j]!;
+      for (let i = 0; i < W; i++) {
+        const kx = kxs[i]!;
         const k = Math.sqrt(kx * kx + ky * ky);
-        w[i * H + j] = k > 0 ? omegaOf(k, disp) : 0;
+        w[j * W + i] = k > 0 ? omegaOf(k, disp) : 0;
       }
     }
     return w;
   }
 
-  // Inverse 2-D FFT of z (x-major): transforms along y (rows of z) into tmp, a blocked
-  // transpose into z (now row-major), transforms along x row by row, whose real and
-  // imaginary parts go to `re` and `im` (row-major).
+  // Unscaled inverse 2-D FFT of z: along y in strips of columns (decimation in
+  // frequency: row y left at storage row rev[y]), then along x row by row (decimation
+  // in time: the columns are already in bit-reversed order), real and imaginary parts
+  // to `re` and `im`.
   function inverseFft2(re: Float64Array, im: Float64Array): void {
-    const { fftH, fftW, z, tmp, rowOut } = ws;
-    const rowH = 2 * H;
-    for (let i = 0; i < W; i++) {
-      const a = i * rowH;
-      fftH.transform(tmp.subarray(a, a + rowH), z.subarray(a, a + rowH));
-    }
-    transposeComplex(tmp, z, W, H);
-    const rowW = 2 * W;
-    for (let j = 0; j < H; j++) {
-      const a = j * rowW;
-      fftW.transform(rowOut, z.subarray(a, a + rowW));
-      const r = j * W;
+    const { fftH, fftW, z, zs } = ws;
+    for (let c0 = 0; c0 < W; c0 += STRIP) fftH.stripToOrder(z, 2 * c0, zs, Math.min(STRIP, W - c0), true);
+    const revH = fftH.rev;
+    for (let y = 0; y < H; y++) {
+      const o = revH[y]! * zs;
+      fftW.fromOrder(z, o, true);
+      const r = y * W;
       for (let i = 0; i < W; i++) {
-        re[r + i] = rowOut[2 * i]!;
-        im[r + i] = -rowOut[2 * i + 1]!;
+        re[r + i] = z[o + 2 * i]!;
+        im[r + i] = z[o + 2 * i + 1]!;
       }
     }
   }
 
-  // src: `rows` rows of `cols` complex values; dst: `cols` rows of `rows`.
-  function transposeComplex(src: Float64Array, dst: Float64Array, rows: number, cols: number): void {
-    const T = 16;
-    for (let r0 = 0; r0 < rows; r0 += T) {
-      const r1 = Math.min(rows, r0 + T);
-      for (let c0 = 0; c0 < cols; c0 += T) {
-        const c1 = Math.min(cols, c0 + T);
-        for (let r = r0; r < r1; r++) {
-          let si = 2 * (r * cols + c0);
-          let di = 2 * (c0 * rows + r);
-          for (let c = c0; c < c1; c++, si += 2, di += 2 * rows) {
-            dst[di] = src[si]!;
-            dst[di + 1] = src[si + 1]!;
-          }
+  // q from its half spectrum qt (kx ≥ 0): inverse along y in strips of the W/2 + 1
+  // columns, then along x two rows at a time: with G_a, G_b the Hermitian rows of y and
+  // y + 1 (G(−kx) = conj G(kx)), IFFT(G_a + i G_b) = q_a + i q_b.
+  function realInverseFft2(q: Float64Array): void {
+    const { fftH, fftW, qt, qs, row } = ws;
+    const qc = W / 2 + 1;
+    for (let c0 = 0; c0 < qc; c0 += STRIP) fftH.stripToOrder(qt, 2 * c0, qs, Math.min(STRIP, qc - c0), true);
+    const revH = fftH.rev;
+    const posW = fftW.rev;
+    const hW = W / 2;
+    for (let y = 0; y < H; y += 2) {
+      const ra = revH[y]! * qs;
+      const rb = revH[y + 1]! * qs;
+      for (let kx = 0; kx <= hW; kx++) {
+        const ar = qt[ra + 2 * kx]!;
+        const ai = qt[ra + 2 * kx + 1]!;
+        const br = qt[rb + 2 * kx]!;
+        const bi = qt[rb + 2 * kx + 1]!;
+        const d = 2 * posW[kx]!;
+        row[d] = ar - bi;
+        row[d + 1] = ai + br;
+        if (kx > 0 && kx < hW) {
+          // conj(a) + i conj(b) at −kx
+          const e = 2 * posW[W - kx]!;
+          row[e] = ar + bi;
+          row[e + 1] = br - ai;
         }
       }
-    }
-  }
-
-  // q from its Hermitian spectrum qt (kx ≥ 0, x-major): inverse transforms along y for
-  // the W/2 + 1 columns, a transpose, then along x each row's real output from a
-  // half-length complex inverse FFT: with M = W/2 and X[k + M] = conj X[M − k],
-  // Z[k] = (X[k] + conj X[M−k]) + i e^(2πik/W) (X[k] − conj X[M−k]) gives
-  // IFFT_M(Z)[m] = x[2m] + i x[2m+1].
-  function realInverseFft2(q: Float64Array): void {
-    const { fftH, fftM, qt, tmp, half, halfOut, twr, twi } = ws;
-    const rowH = 2 * H;
-    for (let i = 0; i < qCols; i++) {
-      const a = i * rowH;
-      fftH.transform(tmp.subarray(a, a + rowH), qt.subarray(a, a + rowH));
-    }
-    transposeComplex(tmp, qt, qCols, H); // qt: H rows of qCols complex values
-    const M = W / 2;
-    for (let j = 0; j < H; j++) {
-      const g = 2 * j * qCols;
-      for (let k = 0; k < M; k++) {
-        // qt holds conj X after the forward transform.
-        const xr = qt[g + 2 * k]!;
-        const xi = -qt[g + 2 * k + 1]!;
-        const yr = qt[g + 2 * (M - k)]!; // conj X[M − k]
-        const yi = qt[g + 2 * (M - k) + 1]!;
-        const er = xr + yr;
-        const ei = xi + yi;
-        const dr = xr - yr;
-        const di = xi - yi;
-        const cr = twr[k]!;
-        const ci = twi[k]!;
-        // conj Z, so that the forward transform gives conj of the inverse.
-        half[2 * k] = er - (ci * dr + cr * di);
-        half[2 * k + 1] = -(ei + (cr * dr - ci * di));
-      }
-      fftM.transform(halfOut, half);
-      const r = j * W;
-      for (let m = 0; m < M; m++) {
-        q[r + 2 * m] = halfOut[2 * m]!;
-        q[r + 2 * m + 1] = -halfOut[2 * m + 1]!;
+      fftW.fromOrder(row, 0, true);
+      const r = y * W;
+      for (let i = 0; i < W; i++) {
+        q[r + i] = row[2 * i]!;
+        q[r + W + i] = row[2 * i + 1]!;
       }
     }
   }

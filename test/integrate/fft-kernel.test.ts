@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import FFT from 'fft.js';
-import { Pow2Fft } from '../../src/integrate/fft-kernel.js';
+import { Pow2Fft } from '../../src/core/fft-kernel.js';
 import { ComplexFft, FastDct } from '../../src/integrate/fft.js';
 
 // References: fft.js (a general-purpose FFT library from npm, v4) for powers of two, and
@@ -255,5 +255,140 @@ describe('FastDct.solvePair (diagonal solve in the DCT-II basis)', () => {
     const one = data.slice(0, n);
     d.solvePair(one, 0, -1, 1, lb, 0, lam);
     expect(relDiff(one, expectFor(data.subarray(0, n), lb))).toBeLessThan(1e-12);
+  });
+});
+
+// Strip forms and the column solve: references are the DFT X[k] = Σ x[j] e^{∓2πi jk/n}
+// and the unnormalised DCT-II X[k] = Σ x[j] cos(πk(2j+1)/(2n)) with its inverse
+// x[j] = (X[0] + 2 Σ_{k≥1} X[k] cos(πk(2j+1)/(2n)))/n, summed directly from the
+// definitions (Makhoul 1980, IEEE Trans. ASSP 28(1), 27–34, eqs. 1–2; any DSP text).
+
+/** Direct DFT of column c of a strip (row r at off + r·rs), angle reduced mod n. */
+function naiveColumnDft(x: Float64Array, off: number, rs: number, c: number, n: number, inverse: boolean): Float64Array {
+  const y = new Float64Array(2 * n);
+  const sg = inverse ? 1 : -1;
+  for (let k = 0; k < n; k++) {
+    let re = 0;
+    let im = 0;
+    for (let j = 0; j < n; j++) {
+      const a = (sg * 2 * Math.PI * ((j * k) % n)) / n;
+      const xr = x[off + j * rs + 2 * c]!;
+      const xi = x[off + j * rs + 2 * c + 1]!;
+      re += xr * Math.cos(a) - xi * Math.sin(a);
+      im += xr * Math.sin(a) + xi * Math.cos(a);
+    }
+    y[2 * k] = re;
+    y[2 * k + 1] = im;
+  }
+  return y;
+}
+
+describe('strip transforms (many columns of a row-major array) against the DFT definition', () => {
+  const cases: [number, number][] = [];
+  for (const n of [1, 2, 4, 8, 16, 32, 64, 128]) for (const nc of [1, 3, 16]) cases.push([n, nc]);
+  it.each(cases)('Pow2Fft.stripFromOrder / stripToOrder, n = %i, %i columns, padded rows at an offset', (n, nc) => {
+    const k = new Pow2Fft(n);
+    const rs = 2 * nc + 6; // padding between rows must be left alone
+    const off = 4;
+    const base = new Float64Array(off + n * rs + 3).map((_, i) => Math.sin(0.71 * i + 0.3) - 0.4 * Math.cos(2.3 * i * i));
+    for (const inverse of [false, true]) {
+      // natural in, bit-reversed out
+      const a = base.slice();
+      k.stripToOrder(a, off, rs, nc, inverse);
+      // bit-reversed in, natural out: feed the same sequences permuted
+      const b = base.slice();
+      for (let j = 0; j < n; j++) {
+        for (let t = 0; t < 2 * nc; t++) b[off + k.rev[j]! * rs + t] = base[off + j * rs + t]!;
+      }
+      k.stripFromOrder(b, off, rs, nc, inverse);
+      for (let c = 0; c < nc; c++) {
+        const ref = naiveColumnDft(base, off, rs, c, n, inverse);
+        const gotA = new Float64Array(2 * n);
+        const gotB = new Float64Array(2 * n);
+        for (let f = 0; f < n; f++) {
+          gotA[2 * f] = a[off + k.rev[f]! * rs + 2 * c]!;
+          gotA[2 * f + 1] = a[off + k.rev[f]! * rs + 2 * c + 1]!;
+          gotB[2 * f] = b[off + f * rs + 2 * c]!;
+          gotB[2 * f + 1] = b[off + f * rs + 2 * c + 1]!;
+        }
+        expect(relDiff(gotA, ref)).toBeLessThan(1e-13);
+        expect(relDiff(gotB, ref)).toBeLessThan(1e-13);
+      }
+      // outside the strip: the offset, the row padding and the tail are untouched
+      for (let i = 0; i < base.length; i++) {
+        const inStrip = i >= off && i < off + n * rs && (i - off) % rs < 2 * nc;
+        if (!inStrip) {
+          expect(a[i]).toBe(base[i]);
+          expect(b[i]).toBe(base[i]);
+        }
+      }
+    }
+  });
+
+  it.each([3, 5, 6, 12, 17])('ComplexFft strip forms on a Bluestein length n = %i (identity order)', (n) => {
+    const f = new ComplexFft(n);
+    const nc = 3;
+    const rs = 2 * nc + 2;
+    const base = new Float64Array(n * rs).map((_, i) => Math.cos(0.53 * i) + 0.2 * Math.sin(1.7 * i));
+    for (const inverse of [false, true]) {
+      const a = base.slice();
+      f.stripToOrder(a, 0, rs, nc, inverse);
+      const b = base.slice();
+      f.stripFromOrder(b, 0, rs, nc, inverse);
+      for (let c = 0; c < nc; c++) {
+        const ref = naiveColumnDft(base, 0, rs, c, n, inverse);
+        const got = new Float64Array(2 * n);
+        for (let r = 0; r < n; r++) {
+          got[2 * r] = a[r * rs + 2 * c]!;
+          got[2 * r + 1] = a[r * rs + 2 * c + 1]!;
+          expect(b[r * rs + 2 * c]).toBe(a[r * rs + 2 * c]);
+        }
+        expect(relDiff(got, ref)).toBeLessThan(1e-12);
+      }
+    }
+  });
+});
+
+describe('FastDct.solveStrip (column solve in the DCT-II basis) against the definitions', () => {
+  it.each([
+    [1, 3],
+    [2, 2],
+    [7, 5],
+    [8, 4],
+    [12, 7],
+    [16, 1],
+    [64, 6],
+  ])('n = %i rows, %i columns (odd counts use a zero partner column)', (n, nb) => {
+    const w = nb + 3; // the strip sits inside wider rows; the other columns stay
+    const i0 = 2;
+    const data = new Float64Array(n * w).map((_, i) => Math.sin(0.9 * i + 0.2) + 0.3 * Math.cos(0.11 * i * i));
+    const before = data.slice();
+    const lx = new Float64Array(w).map((_, i) => (i === i0 ? 0 : 0.5 + 0.25 * i)); // a zero: the piston column
+    const lam = new Float64Array(n).map((_, k) => 2 - 2 * Math.cos((Math.PI * k) / n));
+    const d = new FastDct(n);
+    d.solveStrip(data, w, i0, nb, lx, lam, new Float64Array(n * 2 * ((nb + 1) >> 1)));
+    for (let c = 0; c < w; c++) {
+      if (c < i0 || c >= i0 + nb) {
+        for (let y = 0; y < n; y++) expect(data[y * w + c]).toBe(before[y * w + c]);
+        continue;
+      }
+      // DCT-II by definition, divide, inverse by definition
+      const X = new Float64Array(n);
+      for (let k = 0; k < n; k++) {
+        let s = 0;
+        for (let y = 0; y < n; y++) s += before[y * w + c]! * Math.cos((Math.PI * k * (2 * y + 1)) / (2 * n));
+        const den = lx[c]! + lam[k]!;
+        X[k] = den !== 0 ? s / den : 0;
+      }
+      const ref = new Float64Array(n);
+      for (let y = 0; y < n; y++) {
+        let s = X[0]!;
+        for (let k = 1; k < n; k++) s += 2 * X[k]! * Math.cos((Math.PI * k * (2 * y + 1)) / (2 * n));
+        ref[y] = s / n;
+      }
+      const got = new Float64Array(n);
+      for (let y = 0; y < n; y++) got[y] = data[y * w + c]!;
+      expect(relDiff(got, ref)).toBeLessThan(1e-12);
+    }
   });
 });

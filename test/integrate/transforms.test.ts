@@ -32,7 +32,7 @@ function naiveDct(x: Float64Array, n: number): Float64Array {
 
 const sizes = [1, 2, 3, 4, 5, 7, 8, 12, 16, 31, 33, 64, 100];
 
-describe('ComplexFft (powers of two by fft.js, other lengths by Bluestein)', () => {
+describe('ComplexFft (powers of two by the radix-4 kernel, other lengths by Bluestein)', () => {
   it.each(sizes)('matches the DFT definition and inverts, n = %i', (n) => {
     const x = new Float64Array(2 * n).map((_, i) => Math.sin(1.3 * i + 0.2) + (i % 3) - 1);
     const f = new ComplexFft(n);

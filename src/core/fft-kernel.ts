@@ -1,5 +1,6 @@
 /**
- * The library's own power-of-two FFT kernel: an iterative radix-4 Cooley–Tukey transform
+ * The library's own power-of-two FFT kernel, shared by the transform-based integrators
+ * and the sea synthesis: an iterative radix-4 Cooley–Tukey transform
  * (one radix-2 stage when log₂ n is odd) on interleaved complex `Float64Array`s
  * (`re, im, re, im, …`), in place, with per-size cached tables (bit-reversal permutation
  * and one contiguous twiddle table per stage).
@@ -7,8 +8,11 @@
  * Two in-place forms let callers fold the reordering into a copy they make anyway:
  * decimation in time ({@link Pow2Fft.fromOrder}: input in bit-reversed order, output in
  * natural order) and decimation in frequency ({@link Pow2Fft.toOrder}: natural order in,
- * bit-reversed order out). Neither scales; the inverse sign differs from the forward one
- * only in the sign of the exponent, `X[k] = Σ x[j] e^{∓2πi jk/n}`.
+ * bit-reversed order out). The strip forms ({@link Pow2Fft.stripFromOrder},
+ * {@link Pow2Fft.stripToOrder}) transform many columns of a row-major array at once,
+ * each butterfly running along a row, for 2-D transforms without a transpose. None
+ * scales; the inverse differs from the forward transform only in the sign of the
+ * exponent, `X[k] = Σ x[j] e^{∓2πi jk/n}`.
  *
  * @see Cooley, J. W. & Tukey, J. W. (1965), "An algorithm for the machine calculation of
  *   complex Fourier series", Mathematics of Computation 19(90), 297–301.
@@ -372,6 +376,242 @@ export class Pow2Fft {
         x[o + qd] = d02r - e13r;
         x[o + qd + 1] = d02i - e13i;
       }
+    }
+  }
+
+  /**
+   * Decimation in time on a strip of `nc` interleaved complex columns: row r of the
+   * strip starts at double offset `off + r·rs` and holds `nc` complex values; row j of
+   * each column's sequence is stored at row `rev[j]`; on return row k holds `X[k]` of
+   * every column (natural order). Each butterfly runs along the row, so the twiddles are
+   * loaded once per row group and the columns are never gathered.
+   */
+  stripFromOrder(x: Float64Array, off: number, rs: number, nc: number, inverse: boolean): void {
+    const n = this.n;
+    if (n === 1) return;
+    const len = 2 * nc;
+    if (this.odd) stripRadix2(x, off, rs, len, n);
+    else stripDit4First(x, off, rs, len, n, inverse ? 3 : 2, inverse ? 2 : 3);
+    const tw = inverse ? this.twI : this.twF;
+    const ms = this.ms;
+    for (let s = 0; s < ms.length; s++) {
+      const m = ms[s]!;
+      stripDitStage(x, off, rs, len, n, m, tw, this.twOff[s]!, inverse ? 3 * m : 2 * m, inverse ? 2 * m : 3 * m);
+    }
+  }
+
+  /**
+   * Decimation in frequency on a strip (layout as {@link Pow2Fft.stripFromOrder}): row j
+   * holds element j of every column (natural order); on return row `rev[k]` holds `X[k]`.
+   */
+  stripToOrder(x: Float64Array, off: number, rs: number, nc: number, inverse: boolean): void {
+    const n = this.n;
+    if (n === 1) return;
+    const len = 2 * nc;
+    const tw = inverse ? this.twI : this.twF;
+    const ms = this.ms;
+    for (let s = ms.length - 1; s >= 0; s--) {
+      const m = ms[s]!;
+      stripDifStage(x, off, rs, len, n, m, tw, this.twOff[s]!, inverse ? 3 * m : 2 * m, inverse ? 2 * m : 3 * m);
+    }
+    if (this.odd) stripRadix2(x, off, rs, len, n);
+    else stripDif4Last(x, off, rs, len, n, inverse ? 3 : 2, inverse ? 2 : 3);
+  }
+}
+
+// The strip stages, one loop nest per function: each is called many times, so it is
+// optimised with the feedback of all its code (no half-observed tail after a loop).
+
+/** Radix-2 stage without twiddles (rows r, r + 1), the same in both directions. */
+function stripRadix2(x: Float64Array, off: number, rs: number, len: number, n: number): void {
+  for (let r = 0; r < n; r += 2) {
+    const o0 = off + r * rs;
+    const o1 = o0 + rs;
+    for (let k = 0; k < len; k++) {
+      const a = x[o0 + k]!;
+      const b = x[o1 + k]!;
+      x[o0 + k] = a + b;
+      x[o1 + k] = a - b;
+    }
+  }
+}
+
+/** First radix-4 stage of decimation in time (m = 1, no twiddles); rows qc, qd read. */
+function stripDit4First(x: Float64Array, off: number, rs: number, len: number, n: number, qc: number, qd: number): void {
+  for (let r = 0; r < n; r += 4) {
+    const o0 = off + r * rs;
+    const o1 = o0 + rs;
+    const o2 = o1 + rs;
+    const o3 = o2 + rs;
+    const oc = o0 + qc * rs;
+    const od = o0 + qd * rs;
+    for (let k = 0; k < len; k += 2) {
+      const ar = x[o0 + k]!;
+      const ai = x[o0 + k + 1]!;
+      const br = x[o1 + k]!;
+      const bi = x[o1 + k + 1]!;
+      const cr = x[oc + k]!;
+      const ci = x[oc + k + 1]!;
+      const dr = x[od + k]!;
+      const di = x[od + k + 1]!;
+      const t0r = ar + br;
+      const t0i = ai + bi;
+      const t1r = ar - br;
+      const t1i = ai - bi;
+      const t2r = cr + dr;
+      const t2i = ci + di;
+      const t3r = ci - di;
+      const t3i = dr - cr;
+      x[o0 + k] = t0r + t2r;
+      x[o0 + k + 1] = t0i + t2i;
+      x[o1 + k] = t1r + t3r;
+      x[o1 + k + 1] = t1i + t3i;
+      x[o2 + k] = t0r - t2r;
+      x[o2 + k + 1] = t0i - t2i;
+      x[o3 + k] = t1r - t3r;
+      x[o3 + k + 1] = t1i - t3i;
+    }
+  }
+}
+
+/** One twiddled radix-4 stage of decimation in time, sub-length m, table at t0. */
+function stripDitStage(x: Float64Array, off: number, rs: number, len: number, n: number, m: number, tw: Float64Array, t0: number, qc: number, qd: number): void {
+  for (let j = 0, t = t0; j < m; j++, t += 6) {
+    const w1r = tw[t]!;
+    const w1i = tw[t + 1]!;
+    const w2r = tw[t + 2]!;
+    const w2i = tw[t + 3]!;
+    const w3r = tw[t + 4]!;
+    const w3i = tw[t + 5]!;
+    for (let r = j; r < n; r += 4 * m) {
+      const o0 = off + r * rs;
+      const o1 = o0 + m * rs;
+      const o2 = o1 + m * rs;
+      const o3 = o2 + m * rs;
+      const oc = o0 + qc * rs;
+      const od = o0 + qd * rs;
+      for (let k = 0; k < len; k += 2) {
+        const ar = x[o0 + k]!;
+        const ai = x[o0 + k + 1]!;
+        const xbr = x[o1 + k]!;
+        const xbi = x[o1 + k + 1]!;
+        const br = xbr * w2r - xbi * w2i;
+        const bi = xbr * w2i + xbi * w2r;
+        const xcr = x[oc + k]!;
+        const xci = x[oc + k + 1]!;
+        const cr = xcr * w1r - xci * w1i;
+        const ci = xcr * w1i + xci * w1r;
+        const xdr = x[od + k]!;
+        const xdi = x[od + k + 1]!;
+        const dr = xdr * w3r - xdi * w3i;
+        const di = xdr * w3i + xdi * w3r;
+        const t0r = ar + br;
+        const t0i = ai + bi;
+        const t1r = ar - br;
+        const t1i = ai - bi;
+        const t2r = cr + dr;
+        const t2i = ci + di;
+        const t3r = ci - di;
+        const t3i = dr - cr;
+        x[o0 + k] = t0r + t2r;
+        x[o0 + k + 1] = t0i + t2i;
+        x[o1 + k] = t1r + t3r;
+        x[o1 + k + 1] = t1i + t3i;
+        x[o2 + k] = t0r - t2r;
+        x[o2 + k + 1] = t0i - t2i;
+        x[o3 + k] = t1r - t3r;
+        x[o3 + k + 1] = t1i - t3i;
+      }
+    }
+  }
+}
+
+/** One twiddled radix-4 stage of decimation in frequency, sub-length m, table at t0. */
+function stripDifStage(x: Float64Array, off: number, rs: number, len: number, n: number, m: number, tw: Float64Array, t0: number, qc: number, qd: number): void {
+  for (let j = 0, t = t0; j < m; j++, t += 6) {
+    const w1r = tw[t]!;
+    const w1i = tw[t + 1]!;
+    const w2r = tw[t + 2]!;
+    const w2i = tw[t + 3]!;
+    const w3r = tw[t + 4]!;
+    const w3i = tw[t + 5]!;
+    for (let r = j; r < n; r += 4 * m) {
+      const o0 = off + r * rs;
+      const o1 = o0 + m * rs;
+      const o2 = o1 + m * rs;
+      const o3 = o2 + m * rs;
+      const oc = o0 + qc * rs;
+      const od = o0 + qd * rs;
+      for (let k = 0; k < len; k += 2) {
+        const x0r = x[o0 + k]!;
+        const x0i = x[o0 + k + 1]!;
+        const x1r = x[o1 + k]!;
+        const x1i = x[o1 + k + 1]!;
+        const x2r = x[o2 + k]!;
+        const x2i = x[o2 + k + 1]!;
+        const x3r = x[o3 + k]!;
+        const x3i = x[o3 + k + 1]!;
+        const s02r = x0r + x2r;
+        const s02i = x0i + x2i;
+        const d02r = x0r - x2r;
+        const d02i = x0i - x2i;
+        const s13r = x1r + x3r;
+        const s13i = x1i + x3i;
+        const e13r = x1i - x3i;
+        const e13i = x3r - x1r;
+        x[o0 + k] = s02r + s13r;
+        x[o0 + k + 1] = s02i + s13i;
+        const yr = s02r - s13r;
+        const yi = s02i - s13i;
+        x[o1 + k] = yr * w2r - yi * w2i;
+        x[o1 + k + 1] = yr * w2i + yi * w2r;
+        const ur = d02r + e13r;
+        const ui = d02i + e13i;
+        x[oc + k] = ur * w1r - ui * w1i;
+        x[oc + k + 1] = ur * w1i + ui * w1r;
+        const vr = d02r - e13r;
+        const vi = d02i - e13i;
+        x[od + k] = vr * w3r - vi * w3i;
+        x[od + k + 1] = vr * w3i + vi * w3r;
+      }
+    }
+  }
+}
+
+/** Last radix-4 stage of decimation in frequency (m = 1, no twiddles); rows qc, qd written. */
+function stripDif4Last(x: Float64Array, off: number, rs: number, len: number, n: number, qc: number, qd: number): void {
+  for (let r = 0; r < n; r += 4) {
+    const o0 = off + r * rs;
+    const o1 = o0 + rs;
+    const o2 = o1 + rs;
+    const o3 = o2 + rs;
+    const oc = o0 + qc * rs;
+    const od = o0 + qd * rs;
+    for (let k = 0; k < len; k += 2) {
+      const x0r = x[o0 + k]!;
+      const x0i = x[o0 + k + 1]!;
+      const x1r = x[o1 + k]!;
+      const x1i = x[o1 + k + 1]!;
+      const x2r = x[o2 + k]!;
+      const x2i = x[o2 + k + 1]!;
+      const x3r = x[o3 + k]!;
+      const x3i = x[o3 + k + 1]!;
+      const s02r = x0r + x2r;
+      const s02i = x0i + x2i;
+      const d02r = x0r - x2r;
+      const d02i = x0i - x2i;
+      const s13r = x1r + x3r;
+      const s13i = x1i + x3i;
+      const e13r = x1i - x3i;
+      const e13i = x3r - x1r;
+      x[o0 + k] = s02r + s13r;
+      x[o0 + k + 1] = s02i + s13i;
+      x[o1 + k] = s02r - s13r;
+      x[o1 + k + 1] = s02i - s13i;
+      x[oc + k] = d02r + e13r;
+      x[oc + k + 1] = d02i + e13i;
+      x[od + k] = d02r - e13r;
+      x[od + k + 1] = d02i - e13i;
     }
   }
 }
