@@ -4,7 +4,8 @@
  * 5 % random removals drawn from the core seeded generator) and error figure (RMS height
  * error after removing the mean, over the valid samples, divided by the RMS height).
  * The two transform solvers are timed after five untimed calls (their steady state, as a
- * per-frame caller sees it; V8 is still optimising their kernels over the first calls).
+ * per-frame caller sees it; V8 is still optimising their kernels over the first calls),
+ * over eleven runs, since their times swing with the garbage collector.
  */
 import { createGrid, createRng, type Grid, type Mask } from '../../src/core/index.js';
 import {
@@ -131,6 +132,7 @@ export const cases: BenchCase[] = [
     size: 1024,
     quickSize: 64,
     warmup: 5,
+    iterations: 11,
     prepare(n) {
       const { h, p, q } = periodicSurface(n);
       return {
@@ -144,6 +146,7 @@ export const cases: BenchCase[] = [
     size: 1024,
     quickSize: 64,
     warmup: 5,
+    iterations: 11,
     prepare(n) {
       const { h, p, q } = nonperiodicSurface(n);
       return {

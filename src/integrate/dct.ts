@@ -134,11 +134,11 @@ function rhsRow(pd: Float64Array, qd: Float64Array, w: number, h: number, j: num
   const up = j > 0;
   const down = j + 1 < h;
   if (up && down && w > 2) {
-    // interior row: the ends with their one x pair each, the middle branch-free (the
-    // same sums in the same order as the general loop below)
+    // interior row: the ends with their one x pair each, the middle branch-free; there
+    // the sample's own slopes cancel, (p₋ + p)/2 − (p + p₊)/2 = (p₋ − p₊)/2
     rhsAt(pd, qd, w, row, 0, true, true, hx, hy, out);
     for (let k = row + 1, end = row + w - 1; k < end; k++) {
-      out[k] = (pd[k - 1]! + pd[k]!) * hx - (pd[k]! + pd[k + 1]!) * hx + (qd[k - w]! + qd[k]!) * hy - (qd[k]! + qd[k + w]!) * hy;
+      out[k] = (pd[k - 1]! - pd[k + 1]!) * hx + (qd[k - w]! - qd[k + w]!) * hy;
     }
     rhsAt(pd, qd, w, row, w - 1, true, true, hx, hy, out);
     return;
