@@ -63,6 +63,19 @@ describe('correctImage', () => {
   const truth = truthRender.image;
   const distorted = renderThroughSurface(sea, camera, pose, scene).image;
 
+  /** RMS of the fast mode's map against the exact one, over the pixels both cover (at least 80 %). */
+  const fastMapRms = (exact: CorrectionResult, meshStep: number, meshInterpolation: 'cubic' | 'linear' | 'quadratic'): number => {
+    const fast = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z }, { mode: 'fast', meshStep, meshInterpolation });
+    let se = 0, n = 0;
+    for (let p = 0; p < N * N; p++) {
+      if (exact.mask[p] !== 1 || fast.mask[p] !== 1) continue;
+      se += (exact.map[2 * p]! - fast.map[2 * p]!) ** 2 + (exact.map[2 * p + 1]! - fast.map[2 * p + 1]!) ** 2;
+      n++;
+    }
+    expect(n).toBeGreaterThan(0.8 * N * N);
+    return Math.sqrt(se / n);
+  };
+
   // Issue check: correction with the true surface of an analytic sea reproduces the
   // flat-water image to ≤ 0.1 px RMS (exact mode). The truth is the renderer's flat-water
   // image; the analytic sea is two sinusoids (exact heights and slopes).
@@ -100,15 +113,7 @@ describe('correctImage', () => {
   // with ~60 px wavelengths) a 4 px mesh stays within 0.05 px RMS (8 px gives ~0.075).
   it('fast mode (4 px mesh) stays within 0.05 px RMS of the exact map on the analytic sea', () => {
     const exact = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z });
-    const fast = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z }, { mode: 'fast', meshStep: 4, meshInterpolation: 'linear' });
-    let se = 0, n = 0;
-    for (let p = 0; p < N * N; p++) {
-      if (exact.mask[p] !== 1 || fast.mask[p] !== 1) continue;
-      se += (exact.map[2 * p]! - fast.map[2 * p]!) ** 2 + (exact.map[2 * p + 1]! - fast.map[2 * p + 1]!) ** 2;
-      n++;
-    }
-    expect(n).toBeGreaterThan(0.8 * N * N);
-    expect(Math.sqrt(se / n)).toBeLessThan(0.05);
+    expect(fastMapRms(exact, 4, 'linear')).toBeLessThan(0.05);
   });
 
   // The cubic fast mode (Hermite patches from traced derivatives, Newton inversion): on a
@@ -117,17 +122,7 @@ describe('correctImage', () => {
   // second derivative, is ~0.075 px here).
   it('cubic fast mode (8 px mesh) stays within 0.005 px RMS of the exact map on the analytic sea; linear does not reach 0.05', () => {
     const exact = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z });
-    const rms = (meshInterpolation: 'cubic' | 'linear'): number => {
-      const fast = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z }, { mode: 'fast', meshStep: 8, meshInterpolation });
-      let se = 0, n = 0;
-      for (let p = 0; p < N * N; p++) {
-        if (exact.mask[p] !== 1 || fast.mask[p] !== 1) continue;
-        se += (exact.map[2 * p]! - fast.map[2 * p]!) ** 2 + (exact.map[2 * p + 1]! - fast.map[2 * p + 1]!) ** 2;
-        n++;
-      }
-      expect(n).toBeGreaterThan(0.8 * N * N);
-      return Math.sqrt(se / n);
-    };
+    const rms = (meshInterpolation: 'cubic' | 'linear'): number => fastMapRms(exact, 8, meshInterpolation);
     expect(rms('cubic')).toBeLessThan(0.005);
     expect(rms('linear')).toBeGreaterThan(0.05);
   });
@@ -138,17 +133,7 @@ describe('correctImage', () => {
   // derivative, the standard bound for linear interpolation) then drops by an order.
   it('quadratic fast mode (8 px mesh) is within 0.01 px RMS of the exact map, over 10× better than linear', () => {
     const exact = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z });
-    const rms = (meshInterpolation: 'quadratic' | 'linear'): number => {
-      const fast = correctImage(distorted, camera, pose, sea, { type: 'plane', z: Z }, { mode: 'fast', meshStep: 8, meshInterpolation });
-      let se = 0, n = 0;
-      for (let p = 0; p < N * N; p++) {
-        if (exact.mask[p] !== 1 || fast.mask[p] !== 1) continue;
-        se += (exact.map[2 * p]! - fast.map[2 * p]!) ** 2 + (exact.map[2 * p + 1]! - fast.map[2 * p + 1]!) ** 2;
-        n++;
-      }
-      expect(n).toBeGreaterThan(0.8 * N * N);
-      return Math.sqrt(se / n);
-    };
+    const rms = (meshInterpolation: 'quadratic' | 'linear'): number => fastMapRms(exact, 8, meshInterpolation);
     const q = rms('quadratic');
     expect(q).toBeLessThan(0.01);
     expect(rms('linear')).toBeGreaterThan(10 * q);
