@@ -335,12 +335,13 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
       reuse = r as CorrectionResult;
     }
     if (co.out === undefined) {
+      // The old result's image, unless it is the very image being corrected.
       const ri = reuse === null ? null : reuse.image;
-      out = ri !== null && ri.width === W && ri.height === H && ri.channels === C ? ri : createImage(W, H, C);
-    }
-    else {
+      out = ri !== null && ri.data !== img.data && ri.width === W && ri.height === H && ri.channels === C ? ri : createImage(W, H, C);
+    } else {
       out = checkImage(cfn, 'options.out', co.out, true);
       if (out.width !== W || out.height !== H || out.channels !== C) typeError(cfn, 'options.out', `${out.width}×${out.height}×${out.channels}`, `an image of ${W}×${H}×${C}`);
+      if (out.data === img.data) typeError(cfn, 'options.out', 'the distorted image itself', 'an image other than the one being corrected (it is read while the output is written)');
     }
     const ctx = traceContext(cfn, surface, ps, sc, medium);
     if (flatCache === null || flatCache.below !== ctx.below) {

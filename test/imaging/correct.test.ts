@@ -171,6 +171,10 @@ describe('correctImage', () => {
     expect(Array.from(b.mask)).toEqual(Array.from(ref.mask));
     for (let p = 0; p < N * N; p++) if (ref.mask[p]) expect(b.map[2 * p]).toBe(ref.map[2 * p]);
     expect(() => prep.correct(distorted, sea, { reuse: {} as never })).toThrow(/options\.reuse/);
+    // Correcting a result's own image again, with that result to reuse, leaves its image alone.
+    const again = prep.correct(b.image, sea, { reuse: b });
+    expect(again.image).not.toBe(b.image);
+    expect(() => prep.correct(distorted, sea, { out: distorted })).toThrow(/options\.out/);
   });
 
   it('resolves folds deterministically and reports them', () => {
