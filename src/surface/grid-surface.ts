@@ -72,6 +72,10 @@ const KEYS_BOUNDS = (() => {
  * derivatives; its bounds are the coefficients' range (the B-spline weights are
  * non-negative and sum to one) and their largest difference over the spacing.
  *
+ * A cubic surface of up to 65 536 cells keeps each cell's interpolant as 16 power-basis
+ * coefficients (at most 8 MiB), which halves the work of an evaluation; larger grids are
+ * evaluated from the samples' weights, with the same values to rounding.
+ *
  * **Outside the domain** the coordinates are clamped to it: height and slopes are those
  * at the nearest point of the domain (so a point a rounding error outside an edge gets
  * the edge's values). The intersector never asks outside the domain.
