@@ -173,32 +173,25 @@ function rhsAt(
  * in those rows (`ix = 1/dx`, `iy = 1/dy`).
  */
 function residualRows(z: Float64Array, pd: Float64Array, qd: Float64Array, w: number, j0: number, j1: number, ix: number, iy: number): number {
-  // Two sums a loop, even and odd pairs, to halve the chain of dependent additions.
+  // Rows after the first: each sample's x pair (to its right) and y pair (from above) in
+  // one loop, in two sums to shorten the chain of dependent additions.
   let s0 = 0, s1 = 0;
   for (let j = j0; j < j1; j++) {
     const row = j * w;
-    let k = row;
-    for (const end = row + w - 2; k < end; k += 2) {
-      const e0 = (z[k + 1]! - z[k]!) * ix - 0.5 * (pd[k]! + pd[k + 1]!);
-      const e1 = (z[k + 2]! - z[k + 1]!) * ix - 0.5 * (pd[k + 1]! + pd[k + 2]!);
-      s0 += e0 * e0;
-      s1 += e1 * e1;
-    }
-    for (; k < row + w - 1; k++) {
-      const e = (z[k + 1]! - z[k]!) * ix - 0.5 * (pd[k]! + pd[k + 1]!);
-      s0 += e * e;
-    }
+    const end = row + w - 1;
     if (j > 0) {
-      k = row;
-      for (const end = row + w - 1; k < end; k += 2) {
-        const e0 = (z[k]! - z[k - w]!) * iy - 0.5 * (qd[k - w]! + qd[k]!);
-        const e1 = (z[k + 1]! - z[k + 1 - w]!) * iy - 0.5 * (qd[k + 1 - w]! + qd[k + 1]!);
-        s0 += e0 * e0;
-        s1 += e1 * e1;
+      for (let k = row; k < end; k++) {
+        const ex = (z[k + 1]! - z[k]!) * ix - 0.5 * (pd[k]! + pd[k + 1]!);
+        const ey = (z[k]! - z[k - w]!) * iy - 0.5 * (qd[k - w]! + qd[k]!);
+        s0 += ex * ex;
+        s1 += ey * ey;
       }
-      for (; k < row + w; k++) {
-        const e = (z[k]! - z[k - w]!) * iy - 0.5 * (qd[k - w]! + qd[k]!);
-        s0 += e * e;
+      const ey = (z[end]! - z[end - w]!) * iy - 0.5 * (qd[end - w]! + qd[end]!);
+      s1 += ey * ey;
+    } else {
+      for (let k = row; k < end; k++) {
+        const ex = (z[k + 1]! - z[k]!) * ix - 0.5 * (pd[k]! + pd[k + 1]!);
+        s0 += ex * ex;
       }
     }
   }
