@@ -48,8 +48,10 @@ function inside(x0: number, y0: number, x1: number, y1: number, x2: number, y2: 
 
 /**
  * @internal Rasterise one triangle (output vertices x, y; source coordinates su, sv) at
- * priority `prio` into `t`. Pixel centres (integers) inside the triangle are covered;
- * pixels on an edge follow the tie rule. Returns the pixels covered.
+ * priority `prio` into `t`, with floating-point edge functions in a canonical vertex
+ * order: the fallback of {@link rasterTriangleSnapped} for vertices beyond its range.
+ * Pixel centres (integers) inside the triangle are covered; pixels on an edge follow the
+ * tie rule. Returns the pixels covered.
  *
  * `curv`, when given, holds the forward map's second differences along the triangle's
  * three source edges, `D = aᵀ·D²F·a` for the source edge vectors `a` of the vertex pairs
@@ -95,7 +97,7 @@ export function rasterTriangle(
   if (minX > maxX || minY > maxY) return 0;
   const { map, owner, fold } = t;
   if (maxX - minX <= 1 && maxY - minY <= 1) {
-    // A small triangle (the exact mode's one-pixel mesh): test its few pixels directly.
+    // A small triangle: test its few pixels directly.
     const inv = 1 / area;
     let covered = 0;
     for (let py = minY; py <= maxY; py++) {
@@ -218,7 +220,8 @@ function snap(x: number): number {
 }
 
 /**
- * @internal The fast mode's rasteriser: as {@link rasterTriangle}, with the vertices
+ * @internal The snapped rasteriser (the fast mode's triangles; the exact mode's cells
+ * that are stretched or lack a corner): as {@link rasterTriangle}, with the vertices
  * snapped to a 1/256-pixel lattice so that the edge functions at pixel centres are exact
  * integers, evaluated once a row and stepped by integers along it. Coverage then follows
  * the tie rule exactly with no per-pixel tests; the snap moves a triangle's corners by at
