@@ -360,7 +360,7 @@ export function validateScenario(scenario: unknown): Scenario {
   noExtra(corr, 'correction');
   const correction = {
     mode: oneOf(corr.mode, 'correction.mode', ['exact', 'fast'] as const, 'exact'),
-    meshStep: int(corr.meshStep, 'correction.meshStep', 1, 256, 4),
+    meshStep: int(corr.meshStep, 'correction.meshStep', 1, 256, 3),
     reference: oneOf(corr.reference, 'correction.reference', ['flat', 'none'] as const, 'flat'),
   };
   const out: Scenario = { name: s.name, sea, light, sensor, camera, target, water, correction };
