@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { expect } from 'vitest';
-import { MeniscusRangeError, MeniscusTypeError } from '../../src/core/index.js';
+import { cross, dot, MeniscusRangeError, MeniscusTypeError, norm, normalize } from '../../src/core/index.js';
 import type { MutableVec3, Vec3 } from '../../src/core/index.js';
 
 export const FC = { seed: 42, numRuns: 200 } as const;
@@ -20,19 +20,8 @@ export const anyDirection = fc
 
 export const index = fc.double({ min: 1, max: 2.5, noNaN: true });
 
-export function dot(a: Vec3, b: Vec3): number {
-  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-}
-export function cross(a: Vec3, b: Vec3): MutableVec3 {
-  return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
-}
-export function norm(a: Vec3): number {
-  return Math.hypot(a[0], a[1], a[2]);
-}
-export function unit(a: Vec3): MutableVec3 {
-  const n = norm(a);
-  return [a[0] / n, a[1] / n, a[2] / n];
-}
+// The vector helpers are the core area's own.
+export { cross, dot, norm, normalize as unit } from '../../src/core/index.js';
 /** Angle between two vectors, robust near 0. */
 export function angle(a: Vec3, b: Vec3): number {
   return Math.atan2(norm(cross(a, b)), dot(a, b));
@@ -41,7 +30,7 @@ export function angle(a: Vec3, b: Vec3): number {
 /** A unit vector perpendicular to `u`. */
 export function perpendicular(u: Vec3): MutableVec3 {
   const helper: Vec3 = Math.abs(u[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0];
-  return unit(cross(u, helper));
+  return normalize(cross(u, helper));
 }
 
 /** The ray that arrives at `theta` from the normal `n` (travelling against it), in the plane spanned by n and `e`. */
