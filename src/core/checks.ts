@@ -46,6 +46,26 @@ export function typeError(fn: string, parameter: string, value: unknown, expecte
 }
 
 /**
+ * Require a value range `[min, max]`: an array of two finite numbers with `max > min`
+ * (the `range` option of the colour-mapping and image-writing functions).
+ *
+ * @returns The pair as `[min, max]`.
+ * @throws {@link MeniscusTypeError} when the value is not a pair;
+ *   {@link MeniscusRangeError} for a non-finite end or `max ≤ min`.
+ * @example
+ * ```ts
+ * const [lo, hi] = checkRangePair('fn', 'options.range', [-0.01, 0.01]);
+ * ```
+ */
+export function checkRangePair(fn: string, parameter: string, value: unknown): [number, number] {
+  if (!Array.isArray(value) || value.length !== 2) typeError(fn, parameter, value, 'a pair [min, max]');
+  const lo = checkFinite(fn, `${parameter}[0]`, value[0]);
+  const hi = checkFinite(fn, `${parameter}[1]`, value[1]);
+  if (!(hi > lo)) rangeError(fn, parameter, value, 'a pair [min, max] with max > min');
+  return [lo, hi];
+}
+
+/**
  * Require a finite number.
  *
  * @returns The number.

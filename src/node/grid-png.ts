@@ -9,7 +9,7 @@
  * @module
  */
 import { readFileSync, writeFileSync } from 'node:fs';
-import { checkFinite, checkGrid, checkMask, checkOptions, createGrid, createImage, rangeError, typeError } from '../core/index.js';
+import { checkRangePair, checkFinite, checkGrid, checkMask, checkOptions, createGrid, createImage, rangeError, typeError } from '../core/index.js';
 import type { Grid, Mask } from '../core/index.js';
 import { decodePng, encodePng, pngInfo } from './png.js';
 
@@ -132,10 +132,7 @@ export function writeGridPng(path: string, grid: Grid, options?: GridPngWriteOpt
   let lo: number;
   let hi: number;
   if (o.range !== undefined) {
-    if (!Array.isArray(o.range) || o.range.length !== 2) typeError(fn, 'options.range', o.range, 'a pair [min, max]');
-    lo = checkFinite(fn, 'options.range[0]', o.range[0]);
-    hi = checkFinite(fn, 'options.range[1]', o.range[1]);
-    if (!(hi > lo)) rangeError(fn, 'options.range', o.range, 'a pair [min, max] with max > min');
+    [lo, hi] = checkRangePair(fn, 'options.range', o.range);
   } else {
     lo = Infinity;
     hi = -Infinity;

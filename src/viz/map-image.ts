@@ -8,7 +8,7 @@
  *
  * @module
  */
-import { checkBoolean, checkFinite, checkGrid, checkInteger, checkMask, checkOneOf, checkOptions, createImage, rangeError, typeError } from '../core/index.js';
+import { checkRangePair, checkBoolean, checkGrid, checkInteger, checkMask, checkOneOf, checkOptions, createImage, rangeError, typeError } from '../core/index.js';
 import type { Grid, Image, Mask } from '../core/index.js';
 import { COLORMAP_NAMES, getColormap } from './colormap.js';
 import type { ColormapName } from './colormap.js';
@@ -78,10 +78,7 @@ function resolve(fn: string, grid: Grid, o: ColorizeOptions, defaultMap: Colorma
   let lo: number;
   let hi: number;
   if (o.range !== undefined) {
-    if (!Array.isArray(o.range) || o.range.length !== 2) typeError(fn, 'options.range', o.range, 'a pair [min, max]');
-    lo = checkFinite(fn, 'options.range[0]', o.range[0]);
-    hi = checkFinite(fn, 'options.range[1]', o.range[1]);
-    if (!(hi > lo)) rangeError(fn, 'options.range', o.range, 'a pair [min, max] with max > min');
+    [lo, hi] = checkRangePair(fn, 'options.range', o.range);
   } else {
     lo = Infinity;
     hi = -Infinity;

@@ -9,7 +9,7 @@
  *
  * @module
  */
-import { checkFinite, checkGrid, checkInteger, checkMask, checkOptions, checkPositive, checkSameShape, rangeError, typeError } from '../core/index.js';
+import { checkRangePair, checkFinite, checkGrid, checkInteger, checkMask, checkOptions, checkPositive, checkSameShape, rangeError, typeError } from '../core/index.js';
 import type { Grid, Mask } from '../core/index.js';
 import { esc, n2, toPx, xAxisSvg, yAxisSvg } from './internal-svg.js';
 import type { Axis } from './internal-svg.js';
@@ -141,10 +141,7 @@ export function slopeHistogram(values: Float64Array | Float32Array, options?: Sl
   let lo: number;
   let hi: number;
   if (o.range !== undefined) {
-    if (!Array.isArray(o.range) || o.range.length !== 2) typeError(fn, 'options.range', o.range, 'a pair [min, max]');
-    lo = checkFinite(fn, 'options.range[0]', o.range[0]);
-    hi = checkFinite(fn, 'options.range[1]', o.range[1]);
-    if (!(hi > lo)) rangeError(fn, 'options.range', o.range, 'a pair [min, max] with max > min');
+    [lo, hi] = checkRangePair(fn, 'options.range', o.range);
   } else {
     const m = maxAbs > 0 ? maxAbs : 1;
     lo = -m;

@@ -9,6 +9,7 @@ import {
   checkMask,
   checkOneOf,
   checkPositive,
+  checkRangePair,
   createGrid,
   createImage,
   createMask,
@@ -57,6 +58,24 @@ describe('errors', () => {
     expect(describeValue([1, NaN, 3])).toBe('[1, NaN, 3]');
     expect(describeValue(new Float64Array(5))).toBe('Float64Array(length 5)');
     expect(describeValue(new Date(NaN))).toBe('Invalid Date');
+  });
+});
+
+describe('checkRangePair', () => {
+  it('returns [min, max] and names the parameter for a malformed or empty range', () => {
+    expect(checkRangePair('fn', 'options.range', [-1, 2])).toEqual([-1, 2]);
+    expect(() => checkRangePair('fn', 'options.range', [1, 1])).toThrow(MeniscusRangeError);
+    expect(() => checkRangePair('fn', 'options.range', [0, NaN])).toThrow(/options\.range\[1\]/);
+    expect(() => checkRangePair('fn', 'options.range', [0])).toThrow(MeniscusTypeError);
+    expect(() => checkRangePair('fn', 'options.range', 'wide')).toThrow(/options\.range/);
+  });
+  it('finds a grid sample that is not finite, by index (the checkGrid scan)', () => {
+    const g = createGrid({ width: 5, height: 3 });
+    g.data[11] = Infinity;
+    expect(() => checkGrid('fn', 'p', g)).toThrow(/p\.data\[11\]/);
+    g.data[11] = 0;
+    g.data[2] = NaN;
+    expect(() => checkGrid('fn', 'p', g)).toThrow(/p\.data\[2\]/);
   });
 });
 
