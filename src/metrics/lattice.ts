@@ -295,38 +295,27 @@ export function lineStraightness(lattice: CornerLattice): LineStraightness {
   let ss = 0;
   let total = 0;
   let maxD = 0;
-  for (let j = 0; j < rows; j++) {
-    let m = 0;
-    for (let i = 0; i < columns; i++) {
-      const k = j * columns + i;
-      if (found[k] !== 1) continue;
-      xs[m] = p[2 * k]!;
-      ys[m] = p[2 * k + 1]!;
-      m++;
+  // Each lattice line (a row starts at j·columns and steps by 1; a column starts at i and
+  // steps by columns) with at least three corners found gets its fitted line.
+  const fitLines = (lines: number, length: number, lineStride: number, step: number, into: LineFit[]): void => {
+    for (let a = 0; a < lines; a++) {
+      let m = 0;
+      for (let b = 0, k = a * lineStride; b < length; b++, k += step) {
+        if (found[k] !== 1) continue;
+        xs[m] = p[2 * k]!;
+        ys[m] = p[2 * k + 1]!;
+        m++;
+      }
+      if (m < 3) continue;
+      const f = fitLine(xs, ys, m, a);
+      into.push(f.fit);
+      ss += f.ss;
+      total += m;
+      if (f.fit.maxDistance > maxD) maxD = f.fit.maxDistance;
     }
-    if (m < 3) continue;
-    const f = fitLine(xs, ys, m, j);
-    rowFits.push(f.fit);
-    ss += f.ss;
-    total += m;
-    if (f.fit.maxDistance > maxD) maxD = f.fit.maxDistance;
-  }
-  for (let i = 0; i < columns; i++) {
-    let m = 0;
-    for (let j = 0; j < rows; j++) {
-      const k = j * columns + i;
-      if (found[k] !== 1) continue;
-      xs[m] = p[2 * k]!;
-      ys[m] = p[2 * k + 1]!;
-      m++;
-    }
-    if (m < 3) continue;
-    const f = fitLine(xs, ys, m, i);
-    colFits.push(f.fit);
-    ss += f.ss;
-    total += m;
-    if (f.fit.maxDistance > maxD) maxD = f.fit.maxDistance;
-  }
+  };
+  fitLines(rows, columns, columns, 1, rowFits);
+  fitLines(columns, rows, 1, columns, colFits);
   const all = rowFits.concat(colFits);
   let sc = 0;
   let mc = 0;
