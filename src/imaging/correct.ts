@@ -564,16 +564,20 @@ function countOnes(m: Uint8Array): number {
   return c;
 }
 
+/** A one-channel pixel with no source: 0, a NaN map, mask 0. */
+function uncover(p: number, map: Float32Array, od: Float32Array, mask: Uint8Array): void {
+  map[2 * p] = NaN;
+  map[2 * p + 1] = NaN;
+  od[p] = 0;
+  mask[p] = 0;
+}
+
 /** After a sampling rasterisation: mask the pixels no triangle covered. Returns the covered pixels. */
 function finishSampled(n: number, owner: Uint8Array, map: Float32Array, od: Float32Array, mask: Uint8Array): number {
   let valid = 0;
   for (let p = 0; p < n; p++) {
-    if (owner[p] === 0) {
-      map[2 * p] = NaN;
-      map[2 * p + 1] = NaN;
-      od[p] = 0;
-      mask[p] = 0;
-    } else {
+    if (owner[p] === 0) uncover(p, map, od, mask);
+    else {
       mask[p] = 1;
       valid++;
     }
@@ -591,10 +595,7 @@ function sampleBilinear1(W: number, H: number, map: Float32Array, owner: Uint8Ar
   let valid = 0;
   for (let p = 0; p < n; p++) {
     if (owner[p] === 0) {
-      map[2 * p] = NaN;
-      map[2 * p + 1] = NaN;
-      od[p] = 0;
-      mask[p] = 0;
+      uncover(p, map, od, mask);
       continue;
     }
     const u = map[2 * p]!, v = map[2 * p + 1]!;
