@@ -6,6 +6,9 @@
  *   npm run bench -- --quick            tiny sizes, one or two runs (a smoke test for CI)
  *   npm run bench -- optics.refract     only the named cases (prefix match)
  *   npm run bench -- --repeat 9         timed runs per case
+ *
+ * `npm run bench` compiles the tree first (scripts/bench.mjs) and runs this file as
+ * JavaScript; `tsx bench/run.ts` runs it from source, which times some kernels slower.
  */
 import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -23,9 +26,12 @@ interface Row {
 }
 
 async function loadCases(): Promise<BenchCase[]> {
-  const dir = join(dirname(fileURLToPath(import.meta.url)), 'cases');
+  const self = fileURLToPath(import.meta.url);
+  const dir = join(dirname(self), 'cases');
+  // .ts under tsx, .js where scripts/bench.mjs compiled the tree ahead of time
+  const ext = self.endsWith('.js') ? '.js' : '.ts';
   const files = readdirSync(dir)
-    .filter((f) => f.endsWith('.ts'))
+    .filter((f) => f.endsWith(ext))
     .sort();
   const all: BenchCase[] = [];
   for (const f of files) {
