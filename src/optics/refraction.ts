@@ -170,9 +170,11 @@ function refractKernel(
     const qn = bx * bx + by * by + bz * bz;
     // both already unit to 1e-8 (the common case): one Newton step from 1 gives 1/√q
     // with an error below 3(q − 1)²/8 ≤ 4e-17, under half an ulp, without a square root
+    const ei = qi - 1;
+    const en = qn - 1;
     let li = 1.5 - 0.5 * qi;
     let ln = 1.5 - 0.5 * qn;
-    if (!(Math.abs(qi - 1) < 1e-8 && Math.abs(qn - 1) < 1e-8)) {
+    if (!(ei * ei + en * en < 1e-16)) {
       li = invLength(fn, 'incident', incident, r, ax, ay, az);
       ln = invLength(fn, 'normals', normals, ns === 0 ? 0 : r, bx, by, bz);
     }
@@ -180,26 +182,24 @@ function refractKernel(
     const iy = ay * li;
     const iz = az * li;
     // c = n̂·î; the normal is turned to face the ray by the sign folded into sg
-    let c = (bx * ix + by * iy + bz * iz) * ln;
-    let sg = ln;
-    if (c > 0) {
-      sg = -ln;
-      c = -c;
-    }
+    const c0 = (bx * ix + by * iy + bz * iz) * ln;
+    const c = c0 > 0 ? -c0 : c0;
+    const sg = c0 > 0 ? -ln : ln;
     const k = 1 - eta2 * (1 - c * c);
-    if (k >= 0) {
-      const s = (-eta * c - Math.sqrt(k)) * sg;
-      out[b] = eta * ix + s * bx;
-      out[b + 1] = eta * iy + s * by;
-      out[b + 2] = eta * iz + s * bz;
-      status[r] = ok;
-    } else {
-      const s = -2 * c * sg;
-      out[b] = ix + s * bx;
-      out[b + 1] = iy + s * by;
-      out[b + 2] = iz + s * bz;
-      status[r] = tir;
+    // refracted: t = η î + (−η c − √k) n̂; reflected (TIR): r = î − 2c n̂
+    let e = eta;
+    let s: number;
+    let st = ok;
+    if (k >= 0) s = (-eta * c - Math.sqrt(k)) * sg;
+    else {
+      s = -2 * c * sg;
+      e = 1;
+      st = tir;
     }
+    out[b] = e * ix + s * bx;
+    out[b + 1] = e * iy + s * by;
+    out[b + 2] = e * iz + s * bz;
+    status[r] = st;
   }
 }
 
