@@ -214,9 +214,23 @@ const SNAP = 256;
 /** Largest vertex coordinate, pixels, for which the snapped edge functions stay exact integers (< 2⁵³). */
 const SNAP_LIMIT = 32768;
 
+/**
+ * `⌈f⌉` as an int32, clamped to `[lo − 2, hi + 2]`: a span end estimated outside the
+ * row's `[lo, hi]` only has to stay outside it (the ±1 settling step cannot bring it
+ * back in). Never −0, never beyond int32, so the rasteriser's loops keep integer code.
+ */
+function ceilIn(f: number, lo: number, hi: number): number {
+  return f < lo - 2 ? lo - 2 : f > hi + 2 ? hi + 2 : Math.ceil(f) | 0;
+}
+
+/** `⌊f⌋` as an int32, clamped as in {@link ceilIn}. */
+function floorIn(f: number, lo: number, hi: number): number {
+  return f < lo - 2 ? lo - 2 : f > hi + 2 ? hi + 2 : Math.floor(f) | 0;
+}
+
 /** A coordinate, pixels, on the snap lattice (an integer count of 1/256 pixel). */
 function snap(x: number): number {
-  return Math.floor(x * SNAP + 0.5);
+  return Math.floor(x * SNAP + 0.5) | 0; // |x| < SNAP_LIMIT at every call: an int32, never −0
 }
 
 /**
@@ -257,8 +271,10 @@ export function rasterTriangleSnapped(
     area = -area;
   }
   const W = t.width, H = t.height;
-  let minX = Math.ceil(Math.min(X0, X1, X2) / SNAP), maxX = Math.floor(Math.max(X0, X1, X2) / SNAP);
-  let minY = Math.ceil(Math.min(Y0, Y1, Y2) / SNAP), maxY = Math.floor(Math.max(Y0, Y1, Y2) / SNAP);
+  // `| 0`: the bounds are int32 (|X| < 2²³) and never −0 (a −0 start would make V8 drop
+  // its integer code for this function)
+  let minX = Math.ceil(Math.min(X0, X1, X2) / SNAP) | 0, maxX = Math.floor(Math.max(X0, X1, X2) / SNAP) | 0;
+  let minY = Math.ceil(Math.min(Y0, Y1, Y2) / SNAP) | 0, maxY = Math.floor(Math.max(Y0, Y1, Y2) / SNAP) | 0;
   if (minX < 0) minX = 0;
   if (minY < 0) minY = 0;
   if (maxX > W - 1) maxX = W - 1;
@@ -300,14 +316,14 @@ export function rasterTriangleSnapped(
   let covered = 0;
   for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
     let lo = minX, hi = maxX;
-    if (A0 > 0) { let x = Math.ceil((m0 - C0) * r0); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
-    else if (A0 < 0) { let x = Math.floor((m0 - C0) * r0); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
+    if (A0 > 0) { let x = ceilIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
+    else if (A0 < 0) { let x = floorIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
     else if (C0 < m0) continue;
-    if (A1 > 0) { let x = Math.ceil((m1 - C1) * r1); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
-    else if (A1 < 0) { let x = Math.floor((m1 - C1) * r1); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
+    if (A1 > 0) { let x = ceilIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
+    else if (A1 < 0) { let x = floorIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
     else if (C1 < m1) continue;
-    if (A2 > 0) { let x = Math.ceil((m2 - C2) * r2); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
-    else if (A2 < 0) { let x = Math.floor((m2 - C2) * r2); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
+    if (A2 > 0) { let x = ceilIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
+    else if (A2 < 0) { let x = floorIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
     else if (C2 < m2) continue;
     if (lo > hi) continue;
     const row = py * W;
