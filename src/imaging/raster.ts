@@ -309,10 +309,21 @@ export function rasterTriangleSnapped(
   let C2 = (X1 - X0) * (PY0 - Y0) + (Y1 - Y0) * X0;
   const dC0 = SNAP * (X2 - X1), dC1 = SNAP * (X0 - X2), dC2 = SNAP * (X1 - X0);
   const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
-  const dw0 = A0 * iA, dw1 = A1 * iA;
+  const dw0 = A0 * iA, dw1 = A1 * iA, dw2 = -dw0 - dw1;
+  // second-order coefficient of the quadratic term along a row (the same on every row)
+  const q2u = k01u * dw0 * dw1 + k12u * dw1 * dw2 + k02u * dw0 * dw2;
+  const q2v = k01v * dw0 * dw1 + k12v * dw1 * dw2 + k02v * dw0 * dw2;
   const smp = t.sample ?? null;
   const src = smp !== null ? smp.source : null, od = smp !== null ? smp.out : null;
   const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2;
+  // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the
+  // sampling needs no clamps: the linear part stays in the source triangle and the
+  // quadratic term is at most ¼ Σ|kᵢⱼ| (each product of weights is at most ¼ inside).
+  const qu = 0.25 * (Math.abs(k01u) + Math.abs(k12u) + Math.abs(k02u)) + 1e-6;
+  const qv = 0.25 * (Math.abs(k01v) + Math.abs(k12v) + Math.abs(k02v)) + 1e-6;
+  const inside =
+    Math.min(su0, su1, su2) - qu > 0 && Math.max(su0, su1, su2) + qu < Wm &&
+    Math.min(sv0, sv1, sv2) - qv > 0 && Math.max(sv0, sv1, sv2) + qv < Hm;
   let covered = 0;
   for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
     let lo = minX, hi = maxX;
@@ -327,26 +338,66 @@ export function rasterTriangleSnapped(
     else if (C2 < m2) continue;
     if (lo > hi) continue;
     const row = py * W;
-    let u = au * lo + bu * py + cu;
-    let v = av * lo + bv * py + cv;
-    let w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA;
-    for (let px = lo; px <= hi; px++) {
-      const p = row + px;
-      const ow = owner[p]!;
-      if (ow !== 0) fold[p] = 1;
-      if (prio > ow) {
-        owner[p] = prio;
-        let su = u, sv = v;
-        if (quad) {
-          const w2 = 1 - w0 - w1, a = w0 * w1, b = w1 * w2, c = w0 * w2;
-          su += a * k01u + b * k12u + c * k02u;
-          sv += a * k01v + b * k12v + c * k02v;
+    // The source position at lo and its first and second differences along the row: the
+    // quadratic term is a quadratic in px there (the weights are linear in px).
+    let u = au * lo + bu * py + cu, v = av * lo + bv * py + cv;
+    let du = au, dv = av, ddu = 0, ddv = 0;
+    if (quad) {
+      const w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA, w2 = 1 - w0 - w1;
+      const a = w0 * w1, b = w1 * w2, c = w0 * w2;
+      u += a * k01u + b * k12u + c * k02u;
+      v += a * k01v + b * k12v + c * k02v;
+      const la = w0 * dw1 + w1 * dw0, lb = w1 * dw2 + w2 * dw1, lc = w0 * dw2 + w2 * dw0;
+      du += la * k01u + lb * k12u + lc * k02u + q2u;
+      dv += la * k01v + lb * k12v + lc * k02v + q2v;
+      ddu = 2 * q2u;
+      ddv = 2 * q2v;
+    }
+    if (src === null) {
+      for (let p = row + lo, end = row + hi; p <= end; p++) {
+        const ow = owner[p]!;
+        if (ow !== 0) fold[p] = 1;
+        if (prio > ow) {
+          owner[p] = prio;
+          map[2 * p] = u;
+          map[2 * p + 1] = v;
         }
-        map[2 * p] = su;
-        map[2 * p + 1] = sv;
-        if (src !== null) {
-          const uu = su > 0 ? (su < Wm ? su : Wm) : 0;
-          const vv = sv > 0 ? (sv < Hm ? sv : Hm) : 0;
+        u += du;
+        du += ddu;
+        v += dv;
+        dv += ddv;
+      }
+    } else if (inside) {
+      // every source position of the triangle lies in [0, W − 1) × [0, H − 1): no clamps
+      for (let p = row + lo, end = row + hi; p <= end; p++) {
+        const ow = owner[p]!;
+        if (ow !== 0) fold[p] = 1;
+        if (prio > ow) {
+          owner[p] = prio;
+          map[2 * p] = u;
+          map[2 * p + 1] = v;
+          const i = u | 0, j = v | 0;
+          const fu = u - i, fv = v - j;
+          const k = j * W + i;
+          const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
+          const s0 = a0 + (a1 - a0) * fu;
+          od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+        }
+        u += du;
+        du += ddu;
+        v += dv;
+        dv += ddv;
+      }
+    } else {
+      for (let p = row + lo, end = row + hi; p <= end; p++) {
+        const ow = owner[p]!;
+        if (ow !== 0) fold[p] = 1;
+        if (prio > ow) {
+          owner[p] = prio;
+          map[2 * p] = u;
+          map[2 * p + 1] = v;
+          const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
+          const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
           let i = uu | 0, j = vv | 0;
           if (i > Wm2) i = Wm2;
           if (j > Hm2) j = Hm2;
@@ -356,11 +407,11 @@ export function rasterTriangleSnapped(
           const s0 = a0 + (a1 - a0) * fu;
           od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
         }
+        u += du;
+        du += ddu;
+        v += dv;
+        dv += ddv;
       }
-      u += au;
-      v += av;
-      w0 += dw0;
-      w1 += dw1;
     }
     covered += hi - lo + 1;
   }

@@ -189,7 +189,7 @@ function refractKernel(
     // refracted: t = η î + (−η c − √k) n̂; reflected (TIR): r = î − 2c n̂
     let e = eta;
     let s: number;
-    let st = ok;
+    let st: number = ok;
     if (k >= 0) s = (-eta * c - Math.sqrt(k)) * sg;
     else {
       s = -2 * c * sg;
