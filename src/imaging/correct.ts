@@ -454,7 +454,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
  * Trace the mesh's rays through the surface to the scene and their reference points
  * (camera-frame points to project) into `cpts`, statuses into `vstat`; rays without a
  * path get a point behind the camera. Each ray starts its surface search from the
- * distance extrapolated from the two previous vertices' hits along its mesh row.
+ * distance extrapolated from up to four previous vertices' hits along its mesh row.
  * Returns the rays traced.
  */
 function traceMesh(
@@ -475,18 +475,24 @@ function traceMesh(
   // central camera) take the short path.
   const tabulated = fl.table !== null && ctx.scene.kind === 1 && Math.abs(ctx.scene.z - fl.planeZ) <= 1e-12 * (1 + Math.abs(fl.planeZ));
   let traced = 0;
-  let tPrev = NaN, tPrev2 = NaN;
+  // the last four hit distances along the mesh row, newest first (NaN: none)
+  let t1 = NaN, t2 = NaN, t3 = NaN, t4 = NaN;
   for (let k = 0; k < NV; k++) {
     let st: number = rs[k]!;
     const a = 3 * k;
-    if (k % MC === 0) tPrev = tPrev2 = NaN;
+    if (k % MC === 0) t1 = t2 = t3 = t4 = NaN;
     if (st === S_OK) {
-      const guess = tPrev2 === tPrev2 ? 2 * tPrev - tPrev2 : tPrev;
+      // polynomial extrapolation of the distance from as many previous hits as there are
+      // (up to cubic: its error is the distance's fourth difference, far below the
+      // tolerance on a smooth surface, so most rays settle at their first evaluation)
+      const guess = t4 === t4 ? 4 * t1 - 6 * t2 + 4 * t3 - t4 : t3 === t3 ? 3 * t1 - 3 * t2 + t3 : t2 === t2 ? 2 * t1 - t2 : t1;
       st = traceRay(ctx, ro[a]!, ro[a + 1]!, ro[a + 2]!, rd[a]!, rd[a + 1]!, rd[a + 2]!, hit, res, guess);
       if (st === S_OK || st === S_TIR || st === S_OUTSIDE) {
-        tPrev2 = tPrev;
-        tPrev = hit[0]!;
-      } else tPrev = tPrev2 = NaN;
+        t4 = t3;
+        t3 = t2;
+        t2 = t1;
+        t1 = hit[0]!;
+      } else t1 = t2 = t3 = t4 = NaN;
       if (tHit !== null) tHit[k] = hit[0]!;
       if (st === S_OK) st = tabulated ? referencePointTabulated(fl, res[0]!, res[1]!, cpts, a) : referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
     }

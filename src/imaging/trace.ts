@@ -111,7 +111,9 @@ export function traceContext(
 
 /**
  * @internal The first hit of a unit ray with the surface. Writes t, x, y, z, p, q into
- * res[0..5] and returns a status code.
+ * res[0..5] and returns a status code; on a warm-started hit res[0] is the distance
+ * refined by one more Newton step (see `finish`), the point and slopes are at the
+ * distance that met the tolerance.
  *
  * When `|dz| > maxSlope·|d_xy|` the clearance `g(t) = z(t) − h(x(t), y(t))` is strictly
  * monotone along the ray (its derivative `dz − p·dx − q·dy` cannot vanish), so there is
@@ -145,11 +147,12 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
     for (let it = 0; it < 3; it++) {
       const x = ox + t * dx, y = oy + t * dy;
       const g = oz + t * dz - s.heightGradient(x, y, grad);
+      const step = g / (dz - (grad[0]! * dx + grad[1]! * dy));
       if (Math.abs(g) <= tol) {
-        if (t >= 0 && x >= b.xMin && x <= b.xMax && y >= b.yMin && y <= b.yMax) return finish(ox, oy, oz, dx, dy, dz, t, grad, res);
+        if (t >= 0 && x >= b.xMin && x <= b.xMax && y >= b.yMin && y <= b.yMax) return finish(ox, oy, oz, dx, dy, dz, t, grad, res, t - step);
         break;
       }
-      t -= g / (dz - (grad[0]! * dx + grad[1]! * dy));
+      t -= step;
     }
   }
   // Clip to the bounds box (slab method), t ≥ 0.
@@ -209,8 +212,14 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
   return S_NOTCONVERGED;
 }
 
-function finish(ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, t: number, grad: Float64Array, res: Float64Array): number {
-  res[0] = t;
+/**
+ * The hit at distance t (point and slopes there) into res[1..5]; res[0] gets `tNext`, the
+ * distance one more Newton step would give (t itself when unknown), which is what a
+ * neighbouring ray's warm start should extrapolate from: t is only settled to the
+ * tolerance, the step's result to about its square.
+ */
+function finish(ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, t: number, grad: Float64Array, res: Float64Array, tNext = t): number {
+  res[0] = tNext === tNext ? tNext : t;
   res[1] = ox + t * dx;
   res[2] = oy + t * dy;
   res[3] = oz + t * dz;
