@@ -16,7 +16,7 @@ import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint, referencePointTabulated } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
-import { rasterTriangleSnapped, rasterUnitCellSnapped, snapVertices } from './raster.js';
+import { TRI_STRIDE, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
 import { cellEdgeCurvatures, mapSecondDerivatives } from './curvature.js';
 import type { RasterTarget } from './raster.js';
@@ -531,8 +531,11 @@ function rasterMesh(
   // once a vertex.
   const snapped = new Int32Array(step === 1 ? 2 * vstat.length : 0), snapOk = new Uint8Array(step === 1 ? vstat.length : 0);
   if (step === 1) snapVertices(outPix, vstat, S_OK, snapped, snapOk);
+  // Larger cells go to the rasteriser a mesh row at a time, as one list in mesh order.
+  const tris = new Float64Array(step > 1 ? 2 * (MC - 1) * TRI_STRIDE : 0);
   for (let j = 0; j + 1 < MR; j++) {
     const va = rows[j]!, vc = rows[j + 1]!;
+    let n = 0;
     for (let i = 0; i + 1 < MC; i++) {
       const ka = j * MC + i, kb = ka + 1, kc = ka + MC, kd = kc + 1;
       const sa = vstat[ka] === S_OK, sb = vstat[kb] === S_OK, scc = vstat[kc] === S_OK, sd = vstat[kd] === S_OK;
@@ -550,15 +553,18 @@ function rasterMesh(
       if (sa && sb && sd) {
         const ar = (xb - xa) * (yd - ya) - (yb - ya) * (xd - xa);
         if (ar < 0) flipped++;
-        rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc, quadratic ? curv1 : null);
+        if (step > 1) putTriangle(tris, n++, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc, quadratic ? curv1 : null);
+        else rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xb, yb, xd, yd, ua, va, ub, va, ub, vc, null);
       }
       // Triangle a, d, c.
       if (sa && sd && scc) {
         const ar = (xd - xa) * (yc - ya) - (yd - ya) * (xc - xa);
         if (ar < 0) flipped++;
-        rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc, quadratic ? curv2 : null);
+        if (step > 1) putTriangle(tris, n++, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc, quadratic ? curv2 : null);
+        else rasterTriangleSnapped(target, ar > 0 ? 2 : 1, xa, ya, xd, yd, xc, yc, ua, va, ub, vc, ua, vc, null);
       }
     }
+    if (n > 0) rasterTrianglesSnapped(target, tris, n);
   }
   return flipped;
 }

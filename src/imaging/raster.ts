@@ -233,6 +233,33 @@ function snap(x: number): number {
   return Math.floor(x * SNAP + 0.5) | 0; // |x| < SNAP_LIMIT at every call: an int32, never −0
 }
 
+/** @internal Doubles per triangle in the lists of {@link rasterTrianglesSnapped}. */
+export const TRI_STRIDE = 20;
+
+/**
+ * @internal Write triangle `q` of a list for {@link rasterTrianglesSnapped}: priority,
+ * output vertices, source vertices and the quadratic term's second differences
+ * (`curv`, 6 numbers, or null for the linear map).
+ */
+export function putTriangle(
+  tris: Float64Array, q: number,
+  prio: number,
+  x0: number, y0: number, x1: number, y1: number, x2: number, y2: number,
+  su0: number, sv0: number, su1: number, sv1: number, su2: number, sv2: number,
+  curv: Float64Array | null,
+): void {
+  const o = q * TRI_STRIDE;
+  tris[o] = prio;
+  tris[o + 1] = x0; tris[o + 2] = y0; tris[o + 3] = x1; tris[o + 4] = y1; tris[o + 5] = x2; tris[o + 6] = y2;
+  tris[o + 7] = su0; tris[o + 8] = sv0; tris[o + 9] = su1; tris[o + 10] = sv1; tris[o + 11] = su2; tris[o + 12] = sv2;
+  if (curv === null) {
+    tris[o + 13] = 0;
+    return;
+  }
+  tris[o + 13] = 1;
+  for (let k = 0; k < 6; k++) tris[o + 14 + k] = curv[k]!;
+}
+
 /**
  * @internal The snapped rasteriser (the fast mode's triangles; the exact mode's cells
  * that are stretched or lack a corner): as {@link rasterTriangle}, with the vertices
@@ -241,6 +268,196 @@ function snap(x: number): number {
  * the tie rule exactly with no per-pixel tests; the snap moves a triangle's corners by at
  * most 1/512 pixel. Triangles with a vertex beyond ±32768 pixels go to
  * {@link rasterTriangle}.
+ *
+ * Takes a list of `n` triangles (written by {@link putTriangle}), rasterised in order,
+ * so that a caller makes one call for many triangles: V8 can then recompile this
+ * function after a deoptimisation like any other, where a function called once a
+ * triangle could be left running from its loop entry point only (several times slower).
+ * Returns the pixels covered.
+ */
+export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: number): number {
+  const { map, owner, fold } = t;
+  const W = t.width, H = t.height;
+  const smp = t.sample ?? null;
+  const src = smp !== null ? smp.source : null, od = smp !== null ? smp.out : null;
+  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2;
+  let covered = 0;
+  for (let q = 0, o = 0; q < n; q++, o += TRI_STRIDE) {
+    const prio = tris[o]!;
+    const x0 = tris[o + 1]!, y0 = tris[o + 2]!, x1 = tris[o + 3]!, y1 = tris[o + 4]!, x2 = tris[o + 5]!, y2 = tris[o + 6]!;
+    let su0 = tris[o + 7]!, sv0 = tris[o + 8]!, su1 = tris[o + 9]!, sv1 = tris[o + 10]!, su2 = tris[o + 11]!, sv2 = tris[o + 12]!;
+    const hasCurv = tris[o + 13] === 1;
+    if (!(Math.abs(x0) < SNAP_LIMIT && Math.abs(y0) < SNAP_LIMIT && Math.abs(x1) < SNAP_LIMIT && Math.abs(y1) < SNAP_LIMIT && Math.abs(x2) < SNAP_LIMIT && Math.abs(y2) < SNAP_LIMIT)) {
+      if (Number.isFinite(x0 + y0 + x1 + y1 + x2 + y2)) covered += rasterTriangle(t, prio, x0, y0, x1, y1, x2, y2, su0, sv0, su1, sv1, su2, sv2, hasCurv ? tris.subarray(o + 14, o + 20) : null);
+      continue;
+    }
+    let X0 = snap(x0), Y0 = snap(y0);
+    let X1 = snap(x1), Y1 = snap(y1);
+    let X2 = snap(x2), Y2 = snap(y2);
+    let area = (X1 - X0) * (Y2 - Y0) - (Y1 - Y0) * (X2 - X0);
+    if (area === 0) continue;
+    let d01x = 0, d01y = 0, d12x = 0, d12y = 0, d02x = 0, d02y = 0;
+    if (hasCurv) {
+      d01x = tris[o + 14]!; d01y = tris[o + 15]!; d12x = tris[o + 16]!; d12y = tris[o + 17]!; d02x = tris[o + 18]!; d02y = tris[o + 19]!;
+    }
+    if (area < 0) {
+      let w = X1; X1 = X2; X2 = w;
+      w = Y1; Y1 = Y2; Y2 = w;
+      w = su1; su1 = su2; su2 = w;
+      w = sv1; sv1 = sv2; sv2 = w;
+      w = d01x; d01x = d02x; d02x = w;
+      w = d01y; d01y = d02y; d02y = w;
+      area = -area;
+    }
+    // `| 0`: the bounds are int32 (|X| < 2²³) and never −0 (a −0 start would make V8 drop
+    // its integer code for this function)
+    let minX = Math.ceil(Math.min(X0, X1, X2) / SNAP) | 0, maxX = Math.floor(Math.max(X0, X1, X2) / SNAP) | 0;
+    let minY = Math.ceil(Math.min(Y0, Y1, Y2) / SNAP) | 0, maxY = Math.floor(Math.max(Y0, Y1, Y2) / SNAP) | 0;
+    if (minX < 0) minX = 0;
+    if (minY < 0) minY = 0;
+    if (maxX > W - 1) maxX = W - 1;
+    if (maxY > H - 1) maxY = H - 1;
+    if (minX > maxX || minY > maxY) continue;
+    // Source coordinates as planes over the snapped triangle, in pixels.
+    const inv = (SNAP * SNAP) / area;
+    const e1x = (X1 - X0) / SNAP, e1y = (Y1 - Y0) / SNAP, e2x = (X2 - X0) / SNAP, e2y = (Y2 - Y0) / SNAP;
+    const du1 = su1 - su0, du2 = su2 - su0, dv1 = sv1 - sv0, dv2 = sv2 - sv0;
+    const au = (du1 * e2y - du2 * e1y) * inv, bu = (du2 * e1x - du1 * e2x) * inv;
+    const av = (dv1 * e2y - dv2 * e1y) * inv, bv = (dv2 * e1x - dv1 * e2x) * inv;
+    const sx0 = X0 / SNAP, sy0 = Y0 / SNAP;
+    const cu = su0 - au * sx0 - bu * sy0, cv = sv0 - av * sx0 - bv * sy0;
+    const quad = hasCurv;
+    const k01u = 0.5 * (au * d01x + bu * d01y), k01v = 0.5 * (av * d01x + bv * d01y);
+    const k12u = 0.5 * (au * d12x + bu * d12y), k12v = 0.5 * (av * d12x + bv * d12y);
+    const k02u = 0.5 * (au * d02x + bu * d02y), k02v = 0.5 * (av * d02x + bv * d02y);
+    // Edge e from a to b: E(px, py) = (Xb − Xa)(S·py − Ya) − (Yb − Ya)(S·px − Xa), integer.
+    // Per row E = C + A·px with A = −S·(Yb − Ya), and C grows by S·(Xb − Xa) a row. Inside:
+    // E ≥ m with m = 0, or 1 where the edge does not own its ties (the rule of `owns`). The
+    // span's end from an edge is the root of C + A·x = m, estimated in floating point and
+    // settled by the exact integer test.
+    const A0 = -SNAP * (Y2 - Y1), A1 = -SNAP * (Y0 - Y2), A2 = -SNAP * (Y1 - Y0);
+    const m0 = Y2 - Y1 > 0 || (Y2 === Y1 && X2 > X1) ? 0 : 1;
+    const m1 = Y0 - Y2 > 0 || (Y0 === Y2 && X0 > X2) ? 0 : 1;
+    const m2 = Y1 - Y0 > 0 || (Y1 === Y0 && X1 > X0) ? 0 : 1;
+    const r0 = A0 !== 0 ? 1 / A0 : 0, r1 = A1 !== 0 ? 1 / A1 : 0, r2 = A2 !== 0 ? 1 / A2 : 0;
+    const PY0 = SNAP * minY;
+    let C0 = (X2 - X1) * (PY0 - Y1) + (Y2 - Y1) * X1;
+    let C1 = (X0 - X2) * (PY0 - Y2) + (Y0 - Y2) * X2;
+    let C2 = (X1 - X0) * (PY0 - Y0) + (Y1 - Y0) * X0;
+    const dC0 = SNAP * (X2 - X1), dC1 = SNAP * (X0 - X2), dC2 = SNAP * (X1 - X0);
+    const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
+    const dw0 = A0 * iA, dw1 = A1 * iA, dw2 = -dw0 - dw1;
+    // second-order coefficient of the quadratic term along a row (the same on every row)
+    const q2u = k01u * dw0 * dw1 + k12u * dw1 * dw2 + k02u * dw0 * dw2;
+    const q2v = k01v * dw0 * dw1 + k12v * dw1 * dw2 + k02v * dw0 * dw2;
+    // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the
+    // sampling needs no clamps: the linear part stays in the source triangle and the
+    // quadratic term is at most ¼ Σ|kᵢⱼ| (each product of weights is at most ¼ inside).
+    const qu = 0.25 * (Math.abs(k01u) + Math.abs(k12u) + Math.abs(k02u)) + 1e-6;
+    const qv = 0.25 * (Math.abs(k01v) + Math.abs(k12v) + Math.abs(k02v)) + 1e-6;
+    const inside =
+      Math.min(su0, su1, su2) - qu > 0 && Math.max(su0, su1, su2) + qu < Wm &&
+      Math.min(sv0, sv1, sv2) - qv > 0 && Math.max(sv0, sv1, sv2) + qv < Hm;
+    for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
+      let lo = minX, hi = maxX;
+      if (A0 > 0) { let x = ceilIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
+      else if (A0 < 0) { let x = floorIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
+      else if (C0 < m0) continue;
+      if (A1 > 0) { let x = ceilIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
+      else if (A1 < 0) { let x = floorIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
+      else if (C1 < m1) continue;
+      if (A2 > 0) { let x = ceilIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
+      else if (A2 < 0) { let x = floorIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
+      else if (C2 < m2) continue;
+      if (lo > hi) continue;
+      const row = py * W;
+      // The source position at lo and its first and second differences along the row: the
+      // quadratic term is a quadratic in px there (the weights are linear in px).
+      let u = au * lo + bu * py + cu, v = av * lo + bv * py + cv;
+      let du = au, dv = av, ddu = 0, ddv = 0;
+      if (quad) {
+        const w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA, w2 = 1 - w0 - w1;
+        const a = w0 * w1, b = w1 * w2, c = w0 * w2;
+        u += a * k01u + b * k12u + c * k02u;
+        v += a * k01v + b * k12v + c * k02v;
+        const la = w0 * dw1 + w1 * dw0, lb = w1 * dw2 + w2 * dw1, lc = w0 * dw2 + w2 * dw0;
+        du += la * k01u + lb * k12u + lc * k02u + q2u;
+        dv += la * k01v + lb * k12v + lc * k02v + q2v;
+        ddu = 2 * q2u;
+        ddv = 2 * q2v;
+      }
+      if (src === null) {
+        for (let p = row + lo, end = row + hi; p <= end; p++) {
+          const ow = owner[p]!;
+          if (ow !== 0) fold[p] = 1;
+          if (prio > ow) {
+            owner[p] = prio;
+            map[2 * p] = u;
+            map[2 * p + 1] = v;
+          }
+          u += du;
+          du += ddu;
+          v += dv;
+          dv += ddv;
+        }
+      } else if (inside) {
+        // every source position of the triangle lies in [0, W − 1) × [0, H − 1): no clamps
+        for (let p = row + lo, end = row + hi; p <= end; p++) {
+          const ow = owner[p]!;
+          if (ow !== 0) fold[p] = 1;
+          if (prio > ow) {
+            owner[p] = prio;
+            map[2 * p] = u;
+            map[2 * p + 1] = v;
+            const i = u | 0, j = v | 0;
+            const fu = u - i, fv = v - j;
+            const k = j * W + i;
+            const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
+            const s0 = a0 + (a1 - a0) * fu;
+            od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+          }
+          u += du;
+          du += ddu;
+          v += dv;
+          dv += ddv;
+        }
+      } else {
+        for (let p = row + lo, end = row + hi; p <= end; p++) {
+          const ow = owner[p]!;
+          if (ow !== 0) fold[p] = 1;
+          if (prio > ow) {
+            owner[p] = prio;
+            map[2 * p] = u;
+            map[2 * p + 1] = v;
+            const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
+            const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
+            let i = uu | 0, j = vv | 0;
+            if (i > Wm2) i = Wm2;
+            if (j > Hm2) j = Hm2;
+            const fu = uu - i, fv = vv - j;
+            const k = j * W + i;
+            const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
+            const s0 = a0 + (a1 - a0) * fu;
+            od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+          }
+          u += du;
+          du += ddu;
+          v += dv;
+          dv += ddv;
+        }
+      }
+      covered += hi - lo + 1;
+    }
+  }
+  return covered;
+}
+
+/** One triangle list for {@link rasterTriangleSnapped}. */
+const oneTriangle = new Float64Array(TRI_STRIDE);
+
+/**
+ * @internal {@link rasterTrianglesSnapped} for one triangle (for the few triangles of a
+ * frame that take another path; many triangles should go in one list).
  */
 export function rasterTriangleSnapped(
   t: RasterTarget,
@@ -249,173 +466,8 @@ export function rasterTriangleSnapped(
   su0: number, sv0: number, su1: number, sv1: number, su2: number, sv2: number,
   curv: Float64Array | null = null,
 ): number {
-  if (!(Math.abs(x0) < SNAP_LIMIT && Math.abs(y0) < SNAP_LIMIT && Math.abs(x1) < SNAP_LIMIT && Math.abs(y1) < SNAP_LIMIT && Math.abs(x2) < SNAP_LIMIT && Math.abs(y2) < SNAP_LIMIT)) {
-    return Number.isFinite(x0 + y0 + x1 + y1 + x2 + y2) ? rasterTriangle(t, prio, x0, y0, x1, y1, x2, y2, su0, sv0, su1, sv1, su2, sv2, curv) : 0;
-  }
-  let X0 = snap(x0), Y0 = snap(y0);
-  let X1 = snap(x1), Y1 = snap(y1);
-  let X2 = snap(x2), Y2 = snap(y2);
-  let area = (X1 - X0) * (Y2 - Y0) - (Y1 - Y0) * (X2 - X0);
-  if (area === 0) return 0;
-  let d01x = 0, d01y = 0, d12x = 0, d12y = 0, d02x = 0, d02y = 0;
-  if (curv !== null) {
-    d01x = curv[0]!; d01y = curv[1]!; d12x = curv[2]!; d12y = curv[3]!; d02x = curv[4]!; d02y = curv[5]!;
-  }
-  if (area < 0) {
-    let w = X1; X1 = X2; X2 = w;
-    w = Y1; Y1 = Y2; Y2 = w;
-    w = su1; su1 = su2; su2 = w;
-    w = sv1; sv1 = sv2; sv2 = w;
-    w = d01x; d01x = d02x; d02x = w;
-    w = d01y; d01y = d02y; d02y = w;
-    area = -area;
-  }
-  const W = t.width, H = t.height;
-  // `| 0`: the bounds are int32 (|X| < 2²³) and never −0 (a −0 start would make V8 drop
-  // its integer code for this function)
-  let minX = Math.ceil(Math.min(X0, X1, X2) / SNAP) | 0, maxX = Math.floor(Math.max(X0, X1, X2) / SNAP) | 0;
-  let minY = Math.ceil(Math.min(Y0, Y1, Y2) / SNAP) | 0, maxY = Math.floor(Math.max(Y0, Y1, Y2) / SNAP) | 0;
-  if (minX < 0) minX = 0;
-  if (minY < 0) minY = 0;
-  if (maxX > W - 1) maxX = W - 1;
-  if (maxY > H - 1) maxY = H - 1;
-  if (minX > maxX || minY > maxY) return 0;
-  const { map, owner, fold } = t;
-  // Source coordinates as planes over the snapped triangle, in pixels.
-  const inv = (SNAP * SNAP) / area;
-  const e1x = (X1 - X0) / SNAP, e1y = (Y1 - Y0) / SNAP, e2x = (X2 - X0) / SNAP, e2y = (Y2 - Y0) / SNAP;
-  const du1 = su1 - su0, du2 = su2 - su0, dv1 = sv1 - sv0, dv2 = sv2 - sv0;
-  const au = (du1 * e2y - du2 * e1y) * inv, bu = (du2 * e1x - du1 * e2x) * inv;
-  const av = (dv1 * e2y - dv2 * e1y) * inv, bv = (dv2 * e1x - dv1 * e2x) * inv;
-  const sx0 = X0 / SNAP, sy0 = Y0 / SNAP;
-  const cu = su0 - au * sx0 - bu * sy0, cv = sv0 - av * sx0 - bv * sy0;
-  const quad = curv !== null;
-  const k01u = 0.5 * (au * d01x + bu * d01y), k01v = 0.5 * (av * d01x + bv * d01y);
-  const k12u = 0.5 * (au * d12x + bu * d12y), k12v = 0.5 * (av * d12x + bv * d12y);
-  const k02u = 0.5 * (au * d02x + bu * d02y), k02v = 0.5 * (av * d02x + bv * d02y);
-  // Edge e from a to b: E(px, py) = (Xb − Xa)(S·py − Ya) − (Yb − Ya)(S·px − Xa), integer.
-  // Per row E = C + A·px with A = −S·(Yb − Ya), and C grows by S·(Xb − Xa) a row. Inside:
-  // E ≥ m with m = 0, or 1 where the edge does not own its ties (the rule of `owns`). The
-  // span's end from an edge is the root of C + A·x = m, estimated in floating point and
-  // settled by the exact integer test.
-  const A0 = -SNAP * (Y2 - Y1), A1 = -SNAP * (Y0 - Y2), A2 = -SNAP * (Y1 - Y0);
-  const m0 = Y2 - Y1 > 0 || (Y2 === Y1 && X2 > X1) ? 0 : 1;
-  const m1 = Y0 - Y2 > 0 || (Y0 === Y2 && X0 > X2) ? 0 : 1;
-  const m2 = Y1 - Y0 > 0 || (Y1 === Y0 && X1 > X0) ? 0 : 1;
-  const r0 = A0 !== 0 ? 1 / A0 : 0, r1 = A1 !== 0 ? 1 / A1 : 0, r2 = A2 !== 0 ? 1 / A2 : 0;
-  const PY0 = SNAP * minY;
-  let C0 = (X2 - X1) * (PY0 - Y1) + (Y2 - Y1) * X1;
-  let C1 = (X0 - X2) * (PY0 - Y2) + (Y0 - Y2) * X2;
-  let C2 = (X1 - X0) * (PY0 - Y0) + (Y1 - Y0) * X0;
-  const dC0 = SNAP * (X2 - X1), dC1 = SNAP * (X0 - X2), dC2 = SNAP * (X1 - X0);
-  const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
-  const dw0 = A0 * iA, dw1 = A1 * iA, dw2 = -dw0 - dw1;
-  // second-order coefficient of the quadratic term along a row (the same on every row)
-  const q2u = k01u * dw0 * dw1 + k12u * dw1 * dw2 + k02u * dw0 * dw2;
-  const q2v = k01v * dw0 * dw1 + k12v * dw1 * dw2 + k02v * dw0 * dw2;
-  const smp = t.sample ?? null;
-  const src = smp !== null ? smp.source : null, od = smp !== null ? smp.out : null;
-  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2;
-  // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the
-  // sampling needs no clamps: the linear part stays in the source triangle and the
-  // quadratic term is at most ¼ Σ|kᵢⱼ| (each product of weights is at most ¼ inside).
-  const qu = 0.25 * (Math.abs(k01u) + Math.abs(k12u) + Math.abs(k02u)) + 1e-6;
-  const qv = 0.25 * (Math.abs(k01v) + Math.abs(k12v) + Math.abs(k02v)) + 1e-6;
-  const inside =
-    Math.min(su0, su1, su2) - qu > 0 && Math.max(su0, su1, su2) + qu < Wm &&
-    Math.min(sv0, sv1, sv2) - qv > 0 && Math.max(sv0, sv1, sv2) + qv < Hm;
-  let covered = 0;
-  for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
-    let lo = minX, hi = maxX;
-    if (A0 > 0) { let x = ceilIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
-    else if (A0 < 0) { let x = floorIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
-    else if (C0 < m0) continue;
-    if (A1 > 0) { let x = ceilIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
-    else if (A1 < 0) { let x = floorIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
-    else if (C1 < m1) continue;
-    if (A2 > 0) { let x = ceilIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
-    else if (A2 < 0) { let x = floorIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
-    else if (C2 < m2) continue;
-    if (lo > hi) continue;
-    const row = py * W;
-    // The source position at lo and its first and second differences along the row: the
-    // quadratic term is a quadratic in px there (the weights are linear in px).
-    let u = au * lo + bu * py + cu, v = av * lo + bv * py + cv;
-    let du = au, dv = av, ddu = 0, ddv = 0;
-    if (quad) {
-      const w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA, w2 = 1 - w0 - w1;
-      const a = w0 * w1, b = w1 * w2, c = w0 * w2;
-      u += a * k01u + b * k12u + c * k02u;
-      v += a * k01v + b * k12v + c * k02v;
-      const la = w0 * dw1 + w1 * dw0, lb = w1 * dw2 + w2 * dw1, lc = w0 * dw2 + w2 * dw0;
-      du += la * k01u + lb * k12u + lc * k02u + q2u;
-      dv += la * k01v + lb * k12v + lc * k02v + q2v;
-      ddu = 2 * q2u;
-      ddv = 2 * q2v;
-    }
-    if (src === null) {
-      for (let p = row + lo, end = row + hi; p <= end; p++) {
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
-          owner[p] = prio;
-          map[2 * p] = u;
-          map[2 * p + 1] = v;
-        }
-        u += du;
-        du += ddu;
-        v += dv;
-        dv += ddv;
-      }
-    } else if (inside) {
-      // every source position of the triangle lies in [0, W − 1) × [0, H − 1): no clamps
-      for (let p = row + lo, end = row + hi; p <= end; p++) {
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
-          owner[p] = prio;
-          map[2 * p] = u;
-          map[2 * p + 1] = v;
-          const i = u | 0, j = v | 0;
-          const fu = u - i, fv = v - j;
-          const k = j * W + i;
-          const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
-          const s0 = a0 + (a1 - a0) * fu;
-          od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
-        }
-        u += du;
-        du += ddu;
-        v += dv;
-        dv += ddv;
-      }
-    } else {
-      for (let p = row + lo, end = row + hi; p <= end; p++) {
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
-          owner[p] = prio;
-          map[2 * p] = u;
-          map[2 * p + 1] = v;
-          const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
-          const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
-          let i = uu | 0, j = vv | 0;
-          if (i > Wm2) i = Wm2;
-          if (j > Hm2) j = Hm2;
-          const fu = uu - i, fv = vv - j;
-          const k = j * W + i;
-          const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
-          const s0 = a0 + (a1 - a0) * fu;
-          od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
-        }
-        u += du;
-        du += ddu;
-        v += dv;
-        dv += ddv;
-      }
-    }
-    covered += hi - lo + 1;
-  }
-  return covered;
+  putTriangle(oneTriangle, 0, prio, x0, y0, x1, y1, x2, y2, su0, sv0, su1, sv1, su2, sv2, curv);
+  return rasterTrianglesSnapped(t, oneTriangle, 1);
 }
 
 /**
