@@ -16,7 +16,7 @@ import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint, referencePointTabulated } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
-import { TRI_STRIDE, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellSnapped, snapVertices } from './raster.js';
+import { TRI_STRIDE, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellsSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
 import { cellEdgeCurvatures, mapSecondDerivatives } from './curvature.js';
 import type { RasterTarget } from './raster.js';
@@ -537,6 +537,14 @@ function rasterMesh(
     const va = rows[j]!, vc = rows[j + 1]!;
     let n = 0;
     for (let i = 0; i + 1 < MC; i++) {
+      if (step === 1 && cellSnapped(snapOk, j * MC + i, MC)) {
+        // a run of one-pixel cells whose corners are all on the lattice, in one call
+        let e = i + 1;
+        while (e + 1 < MC && cellSnapped(snapOk, j * MC + e, MC)) e++;
+        flipped += rasterUnitCellsSnapped(target, snapped, MC, va, i, e);
+        i = e - 1;
+        continue;
+      }
       const ka = j * MC + i, kb = ka + 1, kc = ka + MC, kd = kc + 1;
       const sa = vstat[ka] === S_OK, sb = vstat[kb] === S_OK, scc = vstat[kc] === S_OK, sd = vstat[kd] === S_OK;
       const ua = cols[i]!, ub = cols[i + 1]!;
@@ -544,10 +552,6 @@ function rasterMesh(
       const xb = outPix[2 * kb]!, yb = outPix[2 * kb + 1]!;
       const xc = outPix[2 * kc]!, yc = outPix[2 * kc + 1]!;
       const xd = outPix[2 * kd]!, yd = outPix[2 * kd + 1]!;
-      if (step === 1 && sa && sb && scc && sd && snapOk[ka] === 1 && snapOk[kb] === 1 && snapOk[kc] === 1 && snapOk[kd] === 1) {
-        flipped += rasterUnitCellSnapped(target, ua, va, snapped[2 * ka]!, snapped[2 * ka + 1]!, snapped[2 * kb]!, snapped[2 * kb + 1]!, snapped[2 * kc]!, snapped[2 * kc + 1]!, snapped[2 * kd]!, snapped[2 * kd + 1]!);
-        continue;
-      }
       if (quadratic) cellEdgeCurvatures(outPix, Fuu, Fvv, ka, kb, kc, kd, ub - ua, vc - va, curv1, curv2, sa && sb && scc && sd);
       // Triangle a, b, d (source orientation positive in u-right, v-down pixels).
       if (sa && sb && sd) {
@@ -567,6 +571,11 @@ function rasterMesh(
     if (n > 0) rasterTrianglesSnapped(target, tris, n);
   }
   return flipped;
+}
+
+/** Whether the one-pixel cell with top-left vertex ka has all four corners on the snap lattice (so all valid). */
+function cellSnapped(snapOk: Uint8Array, ka: number, mc: number): boolean {
+  return snapOk[ka] === 1 && snapOk[ka + 1] === 1 && snapOk[ka + mc] === 1 && snapOk[ka + mc + 1] === 1;
 }
 
 /** Number of ones in a 0/1 mask (four bytes a step where the mask is word-aligned). */

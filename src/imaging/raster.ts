@@ -498,89 +498,96 @@ function coversSnapped(e: number, sg: number, ax: number, ay: number, bx: number
 }
 
 /**
- * @internal The exact mode's inverse on one mesh cell of one-pixel size whose four
- * corners all have the map, on snapped corners (integers from {@link snapVertices}): the
+ * @internal The exact mode's inverse on the mesh cells `i0 … iEnd−1` of mesh row `v0` (cells of
+ * one-pixel size, cell i spanning source u = i … i + 1) whose four corners all have the
+ * map, on snapped corners (integers from {@link snapVertices}): the
  * cell's triangles (a, b, d) and (a, d, c) (a top left, b top right, c bottom left, d
  * bottom right; source u₀ … u₀ + 1, v₀ … v₀ + 1) rasterised together over their common
  * bounding box, with the coverage, tie rule, priorities and interpolation that
  * {@link rasterTriangleSnapped} gives them one at a time. The edge functions are exact,
  * so a cell's triangles and its neighbours agree on every shared edge with no ordering
- * rule, and ties follow the rule exactly. Returns the flipped triangles.
+ * rule, and ties follow the rule exactly. The corners are read from `snapped` (as
+ * {@link snapVertices} wrote them, `mc` vertices a mesh row); one call takes a run of
+ * cells so that V8 compiles the loop once (see {@link rasterTrianglesSnapped}). Returns
+ * the flipped triangles.
  */
-export function rasterUnitCellSnapped(
-  t: RasterTarget,
-  u0: number, v0: number,
-  Xa: number, Ya: number, Xb: number, Yb: number, Xc: number, Yc: number, Xd: number, Yd: number,
-): number {
-  const area1 = (Xb - Xa) * (Yd - Ya) - (Yb - Ya) * (Xd - Xa);
-  const area2 = (Xd - Xa) * (Yc - Ya) - (Yd - Ya) * (Xc - Xa);
-  const flipped = (area1 < 0 ? 1 : 0) + (area2 < 0 ? 1 : 0);
-  if (area1 === 0 && area2 === 0) return flipped;
+export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc: number, v0: number, i0: number, iEnd: number): number {
   const W = t.width, H = t.height;
-  let lo = Xa < Xb ? Xa : Xb, hi = Xa < Xb ? Xb : Xa;
-  if (Xc < lo) lo = Xc; else if (Xc > hi) hi = Xc;
-  if (Xd < lo) lo = Xd; else if (Xd > hi) hi = Xd;
-  let minX = (lo + SNAP - 1) >> 8, maxX = hi >> 8;
-  lo = Ya < Yb ? Ya : Yb;
-  hi = Ya < Yb ? Yb : Ya;
-  if (Yc < lo) lo = Yc; else if (Yc > hi) hi = Yc;
-  if (Yd < lo) lo = Yd; else if (Yd > hi) hi = Yd;
-  let minY = (lo + SNAP - 1) >> 8, maxY = hi >> 8;
-  if (minX < 0) minX = 0;
-  if (minY < 0) minY = 0;
-  if (maxX > W - 1) maxX = W - 1;
-  if (maxY > H - 1) maxY = H - 1;
-  if (minX > maxX || minY > maxY) return flipped;
-  if ((maxX - minX + 1) * (maxY - minY + 1) > 16) {
-    // A stretched cell: the per-triangle scan is cheaper than testing its whole box.
-    const s = 1 / SNAP;
-    if (area1 !== 0) rasterTriangleSnapped(t, area1 > 0 ? 2 : 1, Xa * s, Ya * s, Xb * s, Yb * s, Xd * s, Yd * s, u0, v0, u0 + 1, v0, u0 + 1, v0 + 1, null);
-    if (area2 !== 0) rasterTriangleSnapped(t, area2 > 0 ? 2 : 1, Xa * s, Ya * s, Xd * s, Yd * s, Xc * s, Yc * s, u0, v0, u0 + 1, v0 + 1, u0, v0 + 1, null);
-    return flipped;
-  }
   const { map, owner, fold } = t;
-  const s1 = area1 > 0 ? 1 : -1, s2 = area2 > 0 ? 1 : -1;
-  const p1 = area1 > 0 ? 2 : 1, p2 = area2 > 0 ? 2 : 1;
-  const i1 = 1 / area1, i2 = 1 / area2;
-  for (let py = minY; py <= maxY; py++) {
-    const PY = py * SNAP;
-    for (let px = minX; px <= maxX; px++) {
-      const PX = px * SNAP;
-      const ead = (Xd - Xa) * (PY - Ya) - (Yd - Ya) * (PX - Xa);
-      // Triangle (a, b, d): edges a → b, b → d, d → a (= −ead).
-      if (area1 !== 0) {
-        const eab = (Xb - Xa) * (PY - Ya) - (Yb - Ya) * (PX - Xa);
-        if (coversSnapped(eab, s1, Xa, Ya, Xb, Yb)) {
-          const ebd = (Xd - Xb) * (PY - Yb) - (Yd - Yb) * (PX - Xb);
-          if (coversSnapped(ebd, s1, Xb, Yb, Xd, Yd) && coversSnapped(-ead, s1, Xd, Yd, Xa, Ya)) {
-            const p = py * W + px;
-            const ow = owner[p]!;
-            if (ow !== 0) fold[p] = 1;
-            if (p1 > ow) {
-              owner[p] = p1;
-              // Weights: b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
-              const wb = -ead * i1, wd = eab * i1;
-              map[2 * p] = u0 + wb + wd;
-              map[2 * p + 1] = v0 + wd;
+  let flipped = 0;
+  for (let i = i0; i < iEnd; i++) {
+    const u0 = i;
+    const ka = 2 * (v0 * mc + i), kc = ka + 2 * mc;
+    const Xa = snapped[ka]!, Ya = snapped[ka + 1]!, Xb = snapped[ka + 2]!, Yb = snapped[ka + 3]!;
+    const Xc = snapped[kc]!, Yc = snapped[kc + 1]!, Xd = snapped[kc + 2]!, Yd = snapped[kc + 3]!;
+    const area1 = (Xb - Xa) * (Yd - Ya) - (Yb - Ya) * (Xd - Xa);
+    const area2 = (Xd - Xa) * (Yc - Ya) - (Yd - Ya) * (Xc - Xa);
+    flipped += (area1 < 0 ? 1 : 0) + (area2 < 0 ? 1 : 0);
+    if (area1 === 0 && area2 === 0) continue;
+    let lo = Xa < Xb ? Xa : Xb, hi = Xa < Xb ? Xb : Xa;
+    if (Xc < lo) lo = Xc; else if (Xc > hi) hi = Xc;
+    if (Xd < lo) lo = Xd; else if (Xd > hi) hi = Xd;
+    let minX = (lo + SNAP - 1) >> 8, maxX = hi >> 8;
+    lo = Ya < Yb ? Ya : Yb;
+    hi = Ya < Yb ? Yb : Ya;
+    if (Yc < lo) lo = Yc; else if (Yc > hi) hi = Yc;
+    if (Yd < lo) lo = Yd; else if (Yd > hi) hi = Yd;
+    let minY = (lo + SNAP - 1) >> 8, maxY = hi >> 8;
+    if (minX < 0) minX = 0;
+    if (minY < 0) minY = 0;
+    if (maxX > W - 1) maxX = W - 1;
+    if (maxY > H - 1) maxY = H - 1;
+    if (minX > maxX || minY > maxY) continue;
+    if ((maxX - minX + 1) * (maxY - minY + 1) > 16) {
+      // A stretched cell: the per-triangle scan is cheaper than testing its whole box.
+      const s = 1 / SNAP;
+      if (area1 !== 0) rasterTriangleSnapped(t, area1 > 0 ? 2 : 1, Xa * s, Ya * s, Xb * s, Yb * s, Xd * s, Yd * s, u0, v0, u0 + 1, v0, u0 + 1, v0 + 1, null);
+      if (area2 !== 0) rasterTriangleSnapped(t, area2 > 0 ? 2 : 1, Xa * s, Ya * s, Xd * s, Yd * s, Xc * s, Yc * s, u0, v0, u0 + 1, v0 + 1, u0, v0 + 1, null);
+      continue;
+    }
+    const s1 = area1 > 0 ? 1 : -1, s2 = area2 > 0 ? 1 : -1;
+    const p1 = area1 > 0 ? 2 : 1, p2 = area2 > 0 ? 2 : 1;
+    const i1 = 1 / area1, i2 = 1 / area2;
+    for (let py = minY; py <= maxY; py++) {
+      const PY = py * SNAP;
+      for (let px = minX; px <= maxX; px++) {
+        const PX = px * SNAP;
+        const ead = (Xd - Xa) * (PY - Ya) - (Yd - Ya) * (PX - Xa);
+        // Triangle (a, b, d): edges a → b, b → d, d → a (= −ead).
+        if (area1 !== 0) {
+          const eab = (Xb - Xa) * (PY - Ya) - (Yb - Ya) * (PX - Xa);
+          if (coversSnapped(eab, s1, Xa, Ya, Xb, Yb)) {
+            const ebd = (Xd - Xb) * (PY - Yb) - (Yd - Yb) * (PX - Xb);
+            if (coversSnapped(ebd, s1, Xb, Yb, Xd, Yd) && coversSnapped(-ead, s1, Xd, Yd, Xa, Ya)) {
+              const p = py * W + px;
+              const ow = owner[p]!;
+              if (ow !== 0) fold[p] = 1;
+              if (p1 > ow) {
+                owner[p] = p1;
+                // Weights: b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
+                const wb = -ead * i1, wd = eab * i1;
+                map[2 * p] = u0 + wb + wd;
+                map[2 * p + 1] = v0 + wd;
+              }
             }
           }
         }
-      }
-      // Triangle (a, d, c): edges a → d, d → c, c → a.
-      if (area2 !== 0 && coversSnapped(ead, s2, Xa, Ya, Xd, Yd)) {
-        const edc = (Xc - Xd) * (PY - Yd) - (Yc - Yd) * (PX - Xd);
-        if (coversSnapped(edc, s2, Xd, Yd, Xc, Yc)) {
-          const eca = (Xa - Xc) * (PY - Yc) - (Ya - Yc) * (PX - Xc);
-          if (coversSnapped(eca, s2, Xc, Yc, Xa, Ya)) {
-            const p = py * W + px;
-            const ow = owner[p]!;
-            if (ow !== 0) fold[p] = 1;
-            if (p2 > ow) {
-              owner[p] = p2;
-              // Weights: d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
-              const wd = eca * i2, wc = ead * i2;
-              map[2 * p] = u0 + wd;
-              map[2 * p + 1] = v0 + wd + wc;
+        // Triangle (a, d, c): edges a → d, d → c, c → a.
+        if (area2 !== 0 && coversSnapped(ead, s2, Xa, Ya, Xd, Yd)) {
+          const edc = (Xc - Xd) * (PY - Yd) - (Yc - Yd) * (PX - Xd);
+          if (coversSnapped(edc, s2, Xd, Yd, Xc, Yc)) {
+            const eca = (Xa - Xc) * (PY - Yc) - (Ya - Yc) * (PX - Xc);
+            if (coversSnapped(eca, s2, Xc, Yc, Xa, Ya)) {
+              const p = py * W + px;
+              const ow = owner[p]!;
+              if (ow !== 0) fold[p] = 1;
+              if (p2 > ow) {
+                owner[p] = p2;
+                // Weights: d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
+                const wd = eca * i2, wc = ead * i2;
+                map[2 * p] = u0 + wd;
+                map[2 * p + 1] = v0 + wd + wc;
+              }
             }
           }
         }
