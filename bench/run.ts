@@ -9,7 +9,9 @@
  *
  * `npm run bench` compiles the tree first (scripts/bench.mjs) and runs this file as
  * JavaScript; `tsx bench/run.ts` runs it from source, which times some kernels slower.
+ * Each case runs in a fresh child process (`--case NAME`, exact name).
  */
+import { spawnSync } from 'node:child_process';
 import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -70,6 +72,26 @@ async function runCase(c: BenchCase, quick: boolean, repeat: number | undefined)
   return row;
 }
 
+/** Prefix of the line a child prints its row on. */
+const ROW = 'bench-row ';
+
+/**
+ * Run one case in a fresh node process (the same loader and flags as this one), so that
+ * no case's heap or compiled code is shaped by the cases before it.
+ */
+function runIsolated(name: string, quick: boolean, repeat: number | undefined): Row {
+  const argv = [...process.execArgv, fileURLToPath(import.meta.url), '--case', name];
+  if (quick) argv.push('--quick');
+  if (repeat !== undefined) argv.push('--repeat', String(repeat));
+  const r = spawnSync(process.execPath, argv, { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
+  const line = r.stdout.split('\n').find((l) => l.startsWith(ROW));
+  if (r.status !== 0 || line === undefined) {
+    process.stderr.write(r.stdout + r.stderr);
+    throw new Error(`bench case ${name} failed (exit ${r.status})`);
+  }
+  return JSON.parse(line.slice(ROW.length)) as Row;
+}
+
 async function main(): Promise<void> {
   const args = process.argv.slice(2);
   const json = args.includes('--json');
@@ -77,12 +99,21 @@ async function main(): Promise<void> {
   let repeat: number | undefined;
   const ri = args.indexOf('--repeat');
   if (ri >= 0) repeat = Number(args[ri + 1]);
+  const ci = args.indexOf('--case');
+  const all = await loadCases();
+  if (ci >= 0) {
+    // child mode: one case by its exact name, its row (with the note) as one JSON line
+    const c = all.find((x) => x.name === args[ci + 1]);
+    if (!c) throw new Error(`no bench case is named ${args[ci + 1]}`);
+    console.log(ROW + JSON.stringify(await runCase(c, quick, repeat)));
+    return;
+  }
   const names = args.filter((a, i) => !a.startsWith('--') && !(ri >= 0 && i === ri + 1));
-  const cases = (await loadCases()).filter((c) => names.length === 0 || names.some((n) => c.name.startsWith(n)));
+  const cases = all.filter((c) => names.length === 0 || names.some((n) => c.name.startsWith(n)));
   if (cases.length === 0) throw new Error(`no bench case matches ${names.join(', ')}`);
   const rows: Row[] = [];
   for (const c of cases) {
-    const row = await runCase(c, quick, repeat);
+    const row = runIsolated(c.name, quick, repeat);
     rows.push(row);
     if (json) {
       const { note: _note, ...rest } = row;

@@ -6,6 +6,8 @@
  * in [0, 2π); unit normals tilted uniformly up to 30° from +z, azimuth uniform; air
  * (1.000293) into water (1.333). Drawn with the core seeded generator (seed 13).
  *
+ * Both are per-frame kernels, timed after five untimed calls (their steady state).
+ *
  * The output and status buffers are allocated once and passed as `options.out` /
  * `options.status`, as a video-rate user of the batch API does (the peer cannot avoid
  * allocating its temporaries).
@@ -49,6 +51,8 @@ export const cases: BenchCase[] = [
     name: 'optics.refract',
     size: 1_000_000,
     quickSize: 1000,
+    warmup: 5,
+    iterations: 15,
     prepare(size) {
       const { d, nn } = rays(size, 13);
       const out = new Float64Array(3 * size);
@@ -75,6 +79,8 @@ export const cases: BenchCase[] = [
     name: 'optics.normals',
     size: 1_000_000,
     quickSize: 1000,
+    warmup: 5,
+    iterations: 15,
     prepare(size) {
       const { d, nn } = rays(size, 13);
       const { directions: t } = refractBatch(d, nn, N_AIR, N_WATER);
