@@ -49,7 +49,7 @@ function inside(x0: number, y0: number, x1: number, y1: number, x2: number, y2: 
 /**
  * @internal Rasterise one triangle (output vertices x, y; source coordinates su, sv) at
  * priority `prio` into `t`, with floating-point edge functions in a canonical vertex
- * order: the fallback of {@link rasterTriangleSnapped} for vertices beyond its range.
+ * order: the fallback of {@link rasterTrianglesSnapped} for vertices beyond its range.
  * Pixel centres (integers) inside the triangle are covered; pixels on an edge follow the
  * tie rule. Returns the pixels covered.
  *
@@ -504,7 +504,7 @@ function coversSnapped(e: number, sg: number, ax: number, ay: number, bx: number
  * cell's triangles (a, b, d) and (a, d, c) (a top left, b top right, c bottom left, d
  * bottom right; source u₀ … u₀ + 1, v₀ … v₀ + 1) rasterised together over their common
  * bounding box, with the coverage, tie rule, priorities and interpolation that
- * {@link rasterTriangleSnapped} gives them one at a time. The edge functions are exact,
+ * {@link rasterTrianglesSnapped} gives them one at a time. The edge functions are exact,
  * so a cell's triangles and its neighbours agree on every shared edge with no ordering
  * rule, and ties follow the rule exactly. The corners are read from `snapped` (as
  * {@link snapVertices} wrote them, `mc` vertices a mesh row); one call takes a run of
