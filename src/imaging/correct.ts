@@ -414,6 +414,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     const foldPixels = countOnes(foldMask);
     if (fused) valid = finishSampled(W * H, owner, map, od, mask);
     else if (C === 1 && interp === 1) valid = sampleBilinear1(W, H, map, owner, mask, id, od);
+    else if (interp === 1) valid = sampleBilinearN(W, H, C, map, owner, mask, id, od);
     else {
       const px = new Float32Array(C);
       for (let p = 0; p < W * H; p++) {
@@ -656,6 +657,51 @@ function sampleBilinear1(W: number, H: number, map: Float32Array, owner: Uint8Ar
     const a0 = id[k]!, a1 = id[k + 1]!, b0 = id[k + W]!, b1 = id[k + W + 1]!;
     const a = a0 + (a1 - a0) * fu;
     od[p] = a + (b0 + (b1 - b0) * fu - a) * fv;
+    mask[p] = 1;
+    valid++;
+  }
+  return valid;
+}
+
+/**
+ * The corrected image for C channels, bilinear, in one loop: each covered pixel samples
+ * the distorted image at its source position with the weights and rounding of
+ * `sampleInto` (so the same numbers, without a call a pixel); uncovered pixels get 0, a
+ * NaN map and mask 0. Returns the covered pixels. Needs W, H ≥ 2.
+ */
+function sampleBilinearN(W: number, H: number, C: number, map: Float32Array, owner: Uint8Array, mask: Uint8Array, id: Float32Array, od: Float32Array): number {
+  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2, n = W * H, row = W * C;
+  let valid = 0;
+  for (let p = 0, q = 0; p < n; p++, q += C) {
+    if (owner[p] === 0) {
+      map[2 * p] = NaN;
+      map[2 * p + 1] = NaN;
+      for (let c = 0; c < C; c++) od[q + c] = 0;
+      mask[p] = 0;
+      continue;
+    }
+    let u = map[2 * p]!, v = map[2 * p + 1]!;
+    if (u < 0) u = 0;
+    else if (u > Wm) u = Wm;
+    if (v < 0) v = 0;
+    else if (v > Hm) v = Hm;
+    let i = u | 0, j = v | 0;
+    if (i > Wm2) i = Wm2;
+    if (j > Hm2) j = Hm2;
+    const t = u - i, s = v - j;
+    const w00 = (1 - t) * (1 - s), w10 = t * (1 - s), w01 = (1 - t) * s, w11 = t * s;
+    const k = (j * W + i) * C;
+    if (C === 3) {
+      // colour images: the three channels written out
+      const k1 = k + 3, k2 = k + row, k3 = k2 + 3;
+      od[q] = w00 * id[k]! + w10 * id[k1]! + w01 * id[k2]! + w11 * id[k3]!;
+      od[q + 1] = w00 * id[k + 1]! + w10 * id[k1 + 1]! + w01 * id[k2 + 1]! + w11 * id[k3 + 1]!;
+      od[q + 2] = w00 * id[k + 2]! + w10 * id[k1 + 2]! + w01 * id[k2 + 2]! + w11 * id[k3 + 2]!;
+    } else {
+      for (let c = 0; c < C; c++) {
+        od[q + c] = w00 * id[k + c]! + w10 * id[k + C + c]! + w01 * id[k + row + c]! + w11 * id[k + row + C + c]!;
+      }
+    }
     mask[p] = 1;
     valid++;
   }
