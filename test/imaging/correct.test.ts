@@ -220,6 +220,31 @@ describe('correctImage', () => {
     }
   });
 
+  it('a colour image is corrected channel by channel as a two-channel one is (same numbers)', () => {
+    // Channels (A, B, A) against (A, B): the three-channel loop is written out, the
+    // others share a loop over channels; both must give the same sample, bit for bit.
+    const three = createImage(N, N, 3), pair = createImage(N, N, 2);
+    for (let p = 0; p < N * N; p++) {
+      const a = Math.cos(0.013 * p) * 0.5 + 0.5, b = (p % 7) / 7;
+      three.data[3 * p] = a;
+      three.data[3 * p + 1] = b;
+      three.data[3 * p + 2] = a;
+      pair.data[2 * p] = a;
+      pair.data[2 * p + 1] = b;
+    }
+    for (const mode of ['exact', 'fast'] as const) {
+      const prep = prepareCorrection(camera, pose, { type: 'plane', z: Z }, { mode });
+      const c3 = prep.correct(three, sea), c2 = prep.correct(pair, sea);
+      expect(c3.valid).toBe(c2.valid);
+      expect(c3.valid).toBeGreaterThan(0.9 * N * N);
+      for (let p = 0; p < N * N; p++) {
+        expect(c3.image.data[3 * p]).toBe(c2.image.data[2 * p]);
+        expect(c3.image.data[3 * p + 1]).toBe(c2.image.data[2 * p + 1]);
+        expect(c3.image.data[3 * p + 2]).toBe(c2.image.data[2 * p]);
+      }
+    }
+  });
+
   it('resolves folds deterministically and reports them', () => {
     // A strong lens-like bump focuses the rays: the map folds.
     const bump = createGaussianSurface({ bumps: [{ amplitude: 0.02, x: 0.02, y: -0.01, sigmaX: 0.03, sigmaY: 0.03 }], domain });
