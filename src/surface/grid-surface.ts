@@ -117,6 +117,27 @@ export function createGridSurface(grid: Grid, options?: GridSurfaceOptions): Sur
   return interpolation === 'bspline' ? cubicSurface(g, splinePadded(g), true) : cubicSurface(g, keysPadded(g), false);
 }
 
+/**
+ * The range of a row-major w × h array and its largest step between neighbours along each
+ * axis (the bounds and slope bounds of the interpolants below).
+ */
+function valueSpread(a: Float64Array, w: number, h: number): { lo: number; hi: number; ddx: number; ddy: number } {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let ddx = 0;
+  let ddy = 0;
+  for (let j = 0; j < h; j++) {
+    for (let i = 0; i < w; i++) {
+      const v = a[j * w + i]!;
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+      if (i + 1 < w) ddx = Math.max(ddx, Math.abs(a[j * w + i + 1]! - v));
+      if (j + 1 < h) ddy = Math.max(ddy, Math.abs(a[(j + 1) * w + i]! - v));
+    }
+  }
+  return { lo, hi, ddx, ddy };
+}
+
 function domainOf(g: Grid): { xMin: number; xMax: number; yMin: number; yMax: number } {
   return { xMin: g.x0, xMax: g.x0 + (g.width - 1) * g.dx, yMin: g.y0, yMax: g.y0 + (g.height - 1) * g.dy };
 }
@@ -124,22 +145,7 @@ function domainOf(g: Grid): { xMin: number; xMax: number; yMin: number; yMax: nu
 function bilinearSurface(g: Grid): Surface {
   const { width: W, height: H, dx, dy, x0, y0 } = g;
   const f = g.data.slice();
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let k = 0; k < f.length; k++) {
-    const v = f[k]!;
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
-  let ddx = 0;
-  let ddy = 0;
-  for (let j = 0; j < H; j++) {
-    for (let i = 0; i < W; i++) {
-      const v = f[j * W + i]!;
-      if (i + 1 < W) ddx = Math.max(ddx, Math.abs(f[j * W + i + 1]! - v));
-      if (j + 1 < H) ddy = Math.max(ddy, Math.abs(f[(j + 1) * W + i]! - v));
-    }
-  }
+  const { lo, hi, ddx, ddy } = valueSpread(f, W, H);
   const idx = 1 / dx;
   const idy = 1 / dy;
   const uMax = W - 1;
@@ -330,19 +336,7 @@ function cubicSurface(g: Grid, P: Float64Array, spline: boolean): Surface {
   const { width: W, height: H, dx, dy, x0, y0 } = g;
   const PW = W + 2;
   const PH = H + 2;
-  let lo = Infinity;
-  let hi = -Infinity;
-  let ddx = 0;
-  let ddy = 0;
-  for (let j = 0; j < PH; j++) {
-    for (let i = 0; i < PW; i++) {
-      const v = P[j * PW + i]!;
-      if (v < lo) lo = v;
-      if (v > hi) hi = v;
-      if (i + 1 < PW) ddx = Math.max(ddx, Math.abs(P[j * PW + i + 1]! - v));
-      if (j + 1 < PH) ddy = Math.max(ddy, Math.abs(P[(j + 1) * PW + i]! - v));
-    }
-  }
+  const { lo, hi, ddx, ddy } = valueSpread(P, PW, PH);
   // Keys: h − c = Σ wᵢ wⱼ (f − c) with Σ w = 1 along each axis: |h − c| ≤ (Σ|w|)² (hi − lo)/2.
   // B-spline: weights ≥ 0 summing to 1, so h lies in the coefficients' range; its slope is
   // a quadratic B-spline of the coefficient differences, so |h_x| ≤ max |Δc| / dx.
