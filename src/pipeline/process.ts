@@ -4,13 +4,14 @@
  *
  * @module
  */
-import { checkImage, checkInteger, checkOptions, checkPositive, createGrid, Status, typeError } from '../core/index.js';
+import { checkImage, checkInteger, checkOptions, checkPositive, createGrid, typeError } from '../core/index.js';
 import type { Grid, Image, Mask } from '../core/index.js';
 import { integrateScattered } from '../integrate/index.js';
 import type { CameraModel, CameraPose } from '../camera/index.js';
 import { createGridSurface } from '../surface/index.js';
 import type { Surface } from '../surface/index.js';
 import { measureFrame, referenceSpots } from '../sensor/index.js';
+import { samplesFor } from '../sensor/sample-data.js';
 import type { FrameMeasurement, MeasureFrameOptions, Reconstruction, SensorSetup } from '../sensor/index.js';
 import { prepareCorrection } from '../imaging/index.js';
 import type { CorrectionOptions, CorrectionResult, CorrectionTarget, PreparedCorrection } from '../imaging/index.js';
@@ -168,19 +169,8 @@ function checkSetup(fn: string, setup: unknown): PipelineSetup {
  * its heights (bicubic-interpolated), with the piston of the sensor's heights.
  */
 function finerHeights(rec: Reconstruction, f: number, smoothness: number, tolerance: number): Grid {
-  const h = rec.height, s = rec.samples;
-  let m = 0;
-  for (let k = 0; k < s.count; k++) if (s.status[k] === Status.ok) m++;
-  const x = new Float64Array(m), y = new Float64Array(m), p = new Float64Array(m), q = new Float64Array(m);
-  let i = 0;
-  for (let k = 0; k < s.count; k++) {
-    if (s.status[k] !== Status.ok) continue;
-    x[i] = s.x[k]!;
-    y[i] = s.y[k]!;
-    p[i] = s.p[k]!;
-    q[i] = s.q[k]!;
-    i++;
-  }
+  const h = rec.height;
+  const { x, y, p, q } = samplesFor(rec.samples, false); // unweighted
   const coarse = createGridSurface(h);
   const spec = { width: (h.width - 1) * f + 1, height: (h.height - 1) * f + 1, dx: h.dx / f, dy: h.dy / f, x0: h.x0, y0: h.y0 };
   const start = new Float64Array(spec.width * spec.height);

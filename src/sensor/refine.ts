@@ -5,13 +5,14 @@
  *
  * @module
  */
-import { checkBoolean, checkInteger, checkOneOf, checkOptions, checkPositive, createGrid, rangeError, Status, typeError } from '../core/index.js';
+import { checkBoolean, checkInteger, checkOneOf, checkOptions, checkPositive, createGrid, rangeError, typeError } from '../core/index.js';
 import type { Grid, GridSpec, Mask } from '../core/index.js';
 import { integrateScattered } from '../integrate/index.js';
 import type { ScatteredResult } from '../integrate/index.js';
 import { createGridSurface } from '../surface/index.js';
 import type { GuideLight } from '../sun/index.js';
 import type { SensorGeometry } from './geometry.js';
+import { samplesFor } from './sample-data.js';
 import { slopesFromSpots } from './slopes.js';
 import type { ApertureSpots, SlopeSamples } from './slopes.js';
 
@@ -64,34 +65,6 @@ export interface Reconstruction {
   readonly converged: boolean;
 }
 
-function samplesFor(s: SlopeSamples, weighted: boolean): { x: Float64Array; y: Float64Array; p: Float64Array; q: Float64Array; weights: Float64Array; used: number } {
-  let m = 0;
-  for (let k = 0; k < s.count; k++) if (s.status[k] === Status.ok) m++;
-  const x = new Float64Array(m), y = new Float64Array(m), p = new Float64Array(m), q = new Float64Array(m), w = new Float64Array(m);
-  let mean = 0, nv = 0;
-  if (weighted) {
-    for (let k = 0; k < s.count; k++) {
-      const v = 0.5 * (s.cpp[k]! + s.cqq[k]!);
-      if (s.status[k] === Status.ok && v > 0 && Number.isFinite(v)) {
-        mean += v;
-        nv++;
-      }
-    }
-    mean = nv > 0 ? mean / nv : 0;
-  }
-  let i = 0;
-  for (let k = 0; k < s.count; k++) {
-    if (s.status[k] !== Status.ok) continue;
-    x[i] = s.x[k]!;
-    y[i] = s.y[k]!;
-    p[i] = s.p[k]!;
-    q[i] = s.q[k]!;
-    const v = 0.5 * (s.cpp[k]! + s.cqq[k]!);
-    w[i] = weighted && mean > 0 && v > 0 && Number.isFinite(v) ? Math.min(100, mean / v) : 1;
-    i++;
-  }
-  return { x, y, p, q, weights: w, used: m };
-}
 
 /**
  * Integrate slopes measured by the sensor into heights, refining the crossing points.
