@@ -7,8 +7,7 @@
 import { finite, integer, nonNegative, numbers, object, positive } from './common.js';
 import type { JsonSchema } from './common.js';
 import type { CameraJson, LightJson, SensorJson } from './types.js';
-import type { DetectSpotsOptions, MatchSpotsOptions } from '../../sensor/index.js';
-import type { GridSpec } from '../../core/index.js';
+import type { DetectSpotsOptions, MatchSpotsOptions, ReconstructOptions } from '../../sensor/index.js';
 import type { CorrectionOptions, CorrectionTarget } from '../../imaging/index.js';
 
 /** @internal A part given inline or as a path to its own JSON file (relative to the run file). */
@@ -119,15 +118,8 @@ export interface RunConfigJson {
   detect?: Omit<DetectSpotsOptions, 'saturation'> & { saturation?: number };
   /** Matching options. */
   match?: MatchSpotsOptions & { expectedShift?: [number, number] };
-  /** Integration options. */
-  reconstruct?: {
-    grid?: GridSpec;
-    smoothness?: number;
-    refine?: boolean;
-    maxIterations?: number;
-    tolerance?: number;
-    weighted?: boolean;
-  };
+  /** Integration options (those of `reconstructSurface` that JSON can hold). */
+  reconstruct?: Pick<ReconstructOptions, 'grid' | 'smoothness' | 'refine' | 'maxIterations' | 'tolerance' | 'weighted'>;
   /** Seeing the scene through the measured surface. */
   correct?: CorrectionJson;
   /** What to write. */
