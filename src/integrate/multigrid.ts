@@ -287,36 +287,9 @@ function prolongSmooth2(C: MgLevel, xc: Float64Array, L: MgLevel, b: Float64Arra
       }
       if (k < row + w) x[k] = x[k]! + xc[K]!;
     }
-    if (j >= 0 && j < h) {
-      // first backward sweep of row j
-      const row = off + j * w;
-      let xr = 0;
-      let exr = 0;
-      for (let k = row + w - 1; k >= row; k--) {
-        const inv = invD[k]!;
-        const exl = ex[k - 1]!;
-        const v = (b[k]! + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
-        x[k] = v;
-        xr = v;
-        exr = exl;
-      }
-    }
-    if (j + 1 < h) {
-      // second backward sweep of row j + 1
-      const row = off + (j + 1) * w;
-      let xr = 0;
-      let exr = 0;
-      for (let k = row + w - 1; k >= row; k--) {
-        const inv = invD[k]!;
-        const exl = ex[k - 1]!;
-        const bk = b[k]!;
-        const v = (bk + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
-        x[k] = v;
-        xr = v;
-        exr = exl;
-        dot += bk * v;
-      }
-    }
+    // first backward sweep of row j, second of row j + 1 (whose b·x goes into the dot)
+    if (j >= 0 && j < h) gsRowBackward(ex, ey, invD, b, x, off + j * w, w, 0);
+    if (j + 1 < h) dot = gsRowBackward(ex, ey, invD, b, x, off + (j + 1) * w, w, dot);
   }
   return dot;
 }
@@ -393,19 +366,29 @@ function gsForward(L: MgLevel, b: Float64Array, x: Float64Array): void {
 
 function gsBackward(L: MgLevel, b: Float64Array, x: Float64Array): void {
   const { ex, ey, invD, off, w, h } = L;
-  for (let j = h - 1; j >= 0; j--) {
-    const row = off + j * w;
-    let xr = 0;
-    let exr = 0;
-    for (let k = row + w - 1; k >= row; k--) {
-      const inv = invD[k]!;
-      const exl = ex[k - 1]!;
-      const v = (b[k]! + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
-      x[k] = v;
-      xr = v;
-      exr = exl;
-    }
+  for (let j = h - 1; j >= 0; j--) gsRowBackward(ex, ey, invD, b, x, off + j * w, w, 0);
+}
+
+/**
+ * One backward Gauss–Seidel sweep of the padded row starting at `row` (`w` samples, right
+ * to left, the new value on the right carried in a register). Returns `dot` plus Σ b·x
+ * over the row, added in order (the V-cycle's last sweep hands the total to the conjugate
+ * gradients).
+ */
+function gsRowBackward(ex: Float64Array, ey: Float64Array, invD: Float64Array, b: Float64Array, x: Float64Array, row: number, w: number, dot: number): number {
+  let xr = 0;
+  let exr = 0;
+  for (let k = row + w - 1; k >= row; k--) {
+    const inv = invD[k]!;
+    const exl = ex[k - 1]!;
+    const bk = b[k]!;
+    const v = (bk + exl * x[k - 1]! + ey[k - w]! * x[k - w]! + ey[k]! * x[k + w]!) * inv + exr * inv * xr;
+    x[k] = v;
+    xr = v;
+    exr = exl;
+    dot += bk * v;
   }
+  return dot;
 }
 
 function residual(L: MgLevel, b: Float64Array, x: Float64Array, r: Float64Array): void {
