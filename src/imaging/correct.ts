@@ -8,7 +8,7 @@ import { checkFinite, checkImage, checkInteger, checkOneOf, checkOptions, checkP
 import type { Image, Mask } from '../core/index.js';
 import type { Surface } from '../surface/index.js';
 import type { CameraModel, CameraPose } from '../camera/index.js';
-import { interpolationCode, sampleInto } from './sample.js';
+import { bilinear1, interpolationCode, sampleInto } from './sample.js';
 import type { ImageInterpolation } from './sample.js';
 import type { ResolvedScene } from './scene.js';
 import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
@@ -639,24 +639,14 @@ function finishSampled(n: number, owner: Uint8Array, map: Float32Array, od: Floa
  * and mask 0. Returns the covered pixels.
  */
 function sampleBilinear1(W: number, H: number, map: Float32Array, owner: Uint8Array, mask: Uint8Array, id: Float32Array, od: Float32Array): number {
-  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2, n = W * H;
+  const n = W * H;
   let valid = 0;
   for (let p = 0; p < n; p++) {
     if (owner[p] === 0) {
       uncover(p, map, od, mask);
       continue;
     }
-    const u = map[2 * p]!, v = map[2 * p + 1]!;
-    const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
-    const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
-    let i = uu | 0, j = vv | 0;
-    if (i > Wm2) i = Wm2;
-    if (j > Hm2) j = Hm2;
-    const fu = uu - i, fv = vv - j;
-    const k = j * W + i;
-    const a0 = id[k]!, a1 = id[k + 1]!, b0 = id[k + W]!, b1 = id[k + W + 1]!;
-    const a = a0 + (a1 - a0) * fu;
-    od[p] = a + (b0 + (b1 - b0) * fu - a) * fv;
+    od[p] = bilinear1(id, W, H, map[2 * p]!, map[2 * p + 1]!);
     mask[p] = 1;
     valid++;
   }

@@ -4,6 +4,7 @@
  *
  * @module
  */
+import { bilinear1 } from './sample.js';
 
 /** @internal Buffers a rasterisation pass writes. */
 export interface RasterTarget {
@@ -280,7 +281,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
   const W = t.width, H = t.height;
   const smp = t.sample ?? null;
   const src = smp !== null ? smp.source : null, od = smp !== null ? smp.out : null;
-  const Wm = W - 1, Hm = H - 1, Wm2 = W - 2, Hm2 = H - 2;
+  const Wm = W - 1, Hm = H - 1;
   let covered = 0;
   for (let q = 0, o = 0; q < n; q++, o += TRI_STRIDE) {
     const prio = tris[o]!;
@@ -429,16 +430,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
             owner[p] = prio;
             map[2 * p] = u;
             map[2 * p + 1] = v;
-            const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
-            const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
-            let i = uu | 0, j = vv | 0;
-            if (i > Wm2) i = Wm2;
-            if (j > Hm2) j = Hm2;
-            const fu = uu - i, fv = vv - j;
-            const k = j * W + i;
-            const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
-            const s0 = a0 + (a1 - a0) * fu;
-            od![p] = s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+            od![p] = bilinear1(src, W, H, u, v);
           }
           u += du;
           du += ddu;
