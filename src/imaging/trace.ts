@@ -213,13 +213,13 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
 }
 
 /**
- * The hit at distance t (point and slopes there) into res[1..5]; res[0] gets `tNext`, the
- * distance one more Newton step would give (t itself when unknown), which is what a
- * neighbouring ray's warm start should extrapolate from: t is only settled to the
- * tolerance, the step's result to about its square.
+ * The hit at distance t (point and slopes there) into res[1..5]; res[0] gets `tNext`,
+ * the distance one more Newton step would give (t itself when unknown or not finite),
+ * which is what a neighbouring ray's warm start should extrapolate from: t is only
+ * settled to the tolerance, the step's result to about its square.
  */
 function finish(ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, t: number, grad: Float64Array, res: Float64Array, tNext = t): number {
-  res[0] = tNext === tNext ? tNext : t;
+  res[0] = Number.isFinite(tNext) ? tNext : t;
   res[1] = ox + t * dx;
   res[2] = oy + t * dy;
   res[3] = oz + t * dz;
@@ -231,7 +231,8 @@ function finish(ox: number, oy: number, oz: number, dx: number, dy: number, dz: 
 /**
  * @internal Trace one unit ray from the camera through the surface to the scene. Writes
  * the scene point (plane: world x, y, z) or the direction of travel (sky: unit vector)
- * into res[0..2] and the surface hit into res[3..5] (its distance t stays in hit[0]);
+ * into res[0..2] and the surface hit into res[3..5] (its distance, refined as `hitSurface`
+ * says, stays in hit[0]);
  * `guess` is an optional starting distance for the surface search. Returns a status code (`ok`, `tir`,
  * `miss`, `notConverged`, or `outside` when the refracted ray never reaches the plane).
  *
