@@ -317,106 +317,9 @@ export class FastDct {
   }
 
   /**
-   * A diagonal solve in the DCT-II basis for two sequences in place (layout as in
-   * {@link FastDct.forwardPair}): transform, divide coefficient k of sequence a by
-   * `la + lam[k]` and of b by `lb + lam[k]` (a zero divisor gives a zero coefficient),
-   * and transform back. Equals forwardPair, the division and inversePair, with the
-   * coefficients never stored.
-   */
-  solvePair(data: Float64Array, ra: number, rb: number, stride: number, la: number, lb: number, lam: Float64Array): void {
-    const n = this.n;
-    if (n === 1 || rb < 0) {
-      this.forwardPair(data, ra, rb, stride);
-      for (let k = 0; k < n; k++) {
-        const da = la + lam[k]!;
-        data[ra + k * stride] = da !== 0 ? data[ra + k * stride]! / da : 0;
-        if (rb < 0) continue;
-        const db = lb + lam[k]!;
-        data[rb + k * stride] = db !== 0 ? data[rb + k * stride]! / db : 0;
-      }
-      this.inversePair(data, ra, rb, stride);
-      return;
-    }
-    const z = this.z;
-    const pos = this.pos;
-    const src = this.src;
-    const ne = (n + 1) >> 1;
-    const no = n >> 1;
-    const s2 = 2 * stride;
-    for (let i = 0, d = 0; i < n; i++, d += 2) {
-      const s = src[i]! * stride;
-      z[d] = data[ra + s]!;
-      z[d + 1] = data[rb + s]!;
-    }
-    this.fft.fromOrder(z, 0, false);
-    const tw = this.tw;
-    const ti = this.twInv;
-    // k = 0: X = Re Z / Im Z, V = X / n
-    {
-      const da = la + lam[0]!;
-      const db = lb + lam[0]!;
-      z[0] = da !== 0 ? z[0]! / (da * n) : 0;
-      z[1] = db !== 0 ? z[1]! / (db * n) : 0;
-    }
-    // coefficients k and n − k from Z[k], Z[n − k]; divided; then V[k], V[n − k] of the
-    // inverse written over Z[k], Z[n − k] (both read before either is written)
-    for (let k = 1; 2 * k <= n; k++) {
-      const m = n - k;
-      const Ar = z[2 * k]!;
-      const Ai = z[2 * k + 1]!;
-      const Br = z[2 * m]!;
-      const Bi = z[2 * m + 1]!;
-      const sr = Ar + Br;
-      const di = Ai - Bi;
-      const si = Ai + Bi;
-      const dr = Ar - Br;
-      const ckr = tw[2 * k]!;
-      const cki = tw[2 * k + 1]!;
-      const lk = lam[k]!;
-      const dak = la + lk;
-      const dbk = lb + lk;
-      const xak = dak !== 0 ? (0.5 * (ckr * sr + cki * di)) / dak : 0;
-      const xbk = dbk !== 0 ? (0.5 * (ckr * si - cki * dr)) / dbk : 0;
-      if (m === k) {
-        // X[n − k] = X[k] here; V[k] = e^{iπk/2N}(X[k] − i X[k]) / n
-        const er = ti[2 * k]!;
-        const ei = ti[2 * k + 1]!;
-        z[2 * k] = er * xak + ei * xak - (ei * xbk - er * xbk);
-        z[2 * k + 1] = ei * xak - er * xak + (er * xbk + ei * xbk);
-        continue;
-      }
-      const cmr = tw[2 * m]!;
-      const cmi = tw[2 * m + 1]!;
-      const lm = lam[m]!;
-      const dam = la + lm;
-      const dbm = lb + lm;
-      const xam = dam !== 0 ? (0.5 * (cmr * sr - cmi * di)) / dam : 0;
-      const xbm = dbm !== 0 ? (0.5 * (cmr * si + cmi * dr)) / dbm : 0;
-      const er = ti[2 * k]!;
-      const ei = ti[2 * k + 1]!;
-      z[2 * k] = er * xak + ei * xam - (ei * xbk - er * xbm);
-      z[2 * k + 1] = ei * xak - er * xam + (er * xbk + ei * xbm);
-      const fr = ti[2 * m]!;
-      const fi = ti[2 * m + 1]!;
-      z[2 * m] = fr * xam + fi * xak - (fi * xbm - fr * xbk);
-      z[2 * m + 1] = fi * xam - fr * xak + (fr * xbm + fi * xbk);
-    }
-    this.fft.toOrder(z, 0, true);
-    for (let j = 0, s = 0; j < ne; j++, s += s2) {
-      const d = pos[j]!;
-      data[ra + s] = z[d]!;
-      data[rb + s] = z[d + 1]!;
-    }
-    for (let j = 0, s = stride; j < no; j++, s += s2) {
-      const d = pos[n - 1 - j]!;
-      data[ra + s] = z[d]!;
-      data[rb + s] = z[d + 1]!;
-    }
-  }
-
-  /**
-   * The diagonal solve of {@link FastDct.solvePair} along the columns of a row-major
-   * real array, for `nb` adjacent columns at once: columns `i0 … i0+nb−1` of `data`
+   * A diagonal solve in the DCT-II basis along the columns of a row-major real array
+   * (transform, divide, transform back, the coefficients never stored), for `nb`
+   * adjacent columns at once: columns `i0 … i0+nb−1` of `data`
    * (row r at `r·w`); coefficient k of column `i0 + c` is divided by `lx[i0 + c] + lam[k]`
    * (zero divisor → zero coefficient). The columns are packed two to a complex value in
    * `tile` (at least `n · 2⌈nb/2⌉` doubles), each row copied whole into the row that the
@@ -448,7 +351,8 @@ export class FastDct {
       tile[2 * c + 1] = db !== 0 ? tile[2 * c + 1]! / (db * n) : 0;
     }
     // rows k and n − k: coefficients from Z[k], Z[n − k], divided, and V[k], V[n − k] of
-    // the inverse written over them (as in solvePair, one complex column at a time)
+    // the inverse written over them (both read before either is written), one complex
+    // column at a time
     for (let k = 1; 2 * k <= n; k++) {
       const m = n - k;
       const ok = k * ts;

@@ -215,49 +215,6 @@ describe('ComplexFft on the kernel, every length', () => {
   });
 });
 
-describe('FastDct.solvePair (diagonal solve in the DCT-II basis)', () => {
-  // Reference: the DCT-II definition (Makhoul 1980) summed directly, divided, and inverted
-  // by the definition's exact inverse X ↦ x[j] = (X[0] + 2 Σ_{k≥1} X[k] cos(πk(2j+1)/2N)) / N.
-  function dct2(x: Float64Array): Float64Array {
-    const n = x.length;
-    return Float64Array.from({ length: n }, (_, k) => {
-      let s = 0;
-      for (let j = 0; j < n; j++) s += x[j]! * Math.cos((Math.PI * k * (2 * j + 1)) / (2 * n));
-      return s;
-    });
-  }
-  function idct2(X: Float64Array): Float64Array {
-    const n = X.length;
-    return Float64Array.from({ length: n }, (_, j) => {
-      let s = X[0]!;
-      for (let k = 1; k < n; k++) s += 2 * X[k]! * Math.cos((Math.PI * k * (2 * j + 1)) / (2 * n));
-      return s / n;
-    });
-  }
-
-  it.each([1, 2, 3, 8, 12, 17, 64])('matches transform, divide, inverse by the definition, n = %i', (n) => {
-    const lam = Float64Array.from({ length: n }, (_, k) => 2 - 2 * Math.cos((Math.PI * k) / n));
-    const data = Float64Array.from({ length: 2 * n }, (_, i) => Math.cos(0.9 * i) + (i % 3));
-    const d = new FastDct(n);
-    const la = 0; // the a sequence has a zero divisor at k = 0
-    const lb = 0.7;
-    const expectFor = (x: Float64Array, l: number) => {
-      const X = dct2(x);
-      for (let k = 0; k < n; k++) X[k] = l + lam[k]! !== 0 ? X[k]! / (l + lam[k]!) : 0;
-      return idct2(X);
-    };
-    const wa = expectFor(data.subarray(0, n), la);
-    const wb = expectFor(data.subarray(n), lb);
-    const work = data.slice();
-    d.solvePair(work, 0, n, 1, la, lb, lam);
-    expect(relDiff(work.subarray(0, n), wa)).toBeLessThan(1e-12);
-    expect(relDiff(work.subarray(n), wb)).toBeLessThan(1e-12);
-    const one = data.slice(0, n);
-    d.solvePair(one, 0, -1, 1, lb, 0, lam);
-    expect(relDiff(one, expectFor(data.subarray(0, n), lb))).toBeLessThan(1e-12);
-  });
-});
-
 // Strip forms and the column solve: references are the DFT X[k] = Σ x[j] e^{∓2πi jk/n}
 // and the unnormalised DCT-II X[k] = Σ x[j] cos(πk(2j+1)/(2n)) with its inverse
 // x[j] = (X[0] + 2 Σ_{k≥1} X[k] cos(πk(2j+1)/(2n)))/n, summed directly from the
