@@ -31,6 +31,21 @@ function edge(ax: number, ay: number, bx: number, by: number, px: number, py: nu
   return -((ax - bx) * (py - by) - (ay - by) * (px - bx));
 }
 
+/**
+ * The owner rule for one output pixel: a second cover marks it as a fold, and the pixel
+ * is taken (returns true, owner set) when `prio` beats its owner so far (0 none, 1 a
+ * flipped triangle, 2 one of the map's own orientation); among equals the first keeps it.
+ */
+function claim(owner: Uint8Array, fold: Uint8Array, p: number, prio: number): boolean {
+  const ow = owner[p]!;
+  if (ow !== 0) fold[p] = 1;
+  if (prio > ow) {
+    owner[p] = prio;
+    return true;
+  }
+  return false;
+}
+
 // Tie rule for a pixel exactly on an edge: antisymmetric in the edge's direction, so a
 // pixel on a shared edge belongs to exactly one of the two triangles.
 function owns(ax: number, ay: number, bx: number, by: number): boolean {
@@ -108,10 +123,7 @@ export function rasterTriangle(
         const w1 = ((x0 - x2) * (py - y2) - (y0 - y2) * (px - x2)) * inv;
         const w2 = 1 - w0 - w1;
         const p = py * W + px;
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
-          owner[p] = prio;
+        if (claim(owner, fold, p, prio)) {
           let u = w0 * su0 + w1 * su1 + w2 * su2, v = w0 * sv0 + w1 * sv1 + w2 * sv2;
           if (curv !== null) {
             // The quadratic term (see above) with the triangle's linear inverse.
@@ -178,11 +190,8 @@ export function rasterTriangle(
       let w1 = ((x0 - x2) * (py - y2) - (y0 - y2) * (lo - x2)) * inv;
       for (let px = lo; px <= hi; px++) {
         const p = row + px;
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
+        if (claim(owner, fold, p, prio)) {
           const w2 = 1 - w0 - w1, a = w0 * w1, b = w1 * w2, c = w0 * w2;
-          owner[p] = prio;
           map[2 * p] = u + a * k01u + b * k12u + c * k02u;
           map[2 * p + 1] = v + a * k01v + b * k12v + c * k02v;
         }
@@ -194,10 +203,7 @@ export function rasterTriangle(
     } else {
       for (let px = lo; px <= hi; px++) {
         const p = row + px;
-        const ow = owner[p]!;
-        if (ow !== 0) fold[p] = 1;
-        if (prio > ow) {
-          owner[p] = prio;
+        if (claim(owner, fold, p, prio)) {
           map[2 * p] = u;
           map[2 * p + 1] = v;
         }
@@ -389,10 +395,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       }
       if (src === null) {
         for (let p = row + lo, end = row + hi; p <= end; p++) {
-          const ow = owner[p]!;
-          if (ow !== 0) fold[p] = 1;
-          if (prio > ow) {
-            owner[p] = prio;
+          if (claim(owner, fold, p, prio)) {
             map[2 * p] = u;
             map[2 * p + 1] = v;
           }
@@ -404,10 +407,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       } else if (inside) {
         // every source position of the triangle lies in [0, W − 1) × [0, H − 1): no clamps
         for (let p = row + lo, end = row + hi; p <= end; p++) {
-          const ow = owner[p]!;
-          if (ow !== 0) fold[p] = 1;
-          if (prio > ow) {
-            owner[p] = prio;
+          if (claim(owner, fold, p, prio)) {
             map[2 * p] = u;
             map[2 * p + 1] = v;
             const i = u | 0, j = v | 0;
@@ -424,10 +424,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
         }
       } else {
         for (let p = row + lo, end = row + hi; p <= end; p++) {
-          const ow = owner[p]!;
-          if (ow !== 0) fold[p] = 1;
-          if (prio > ow) {
-            owner[p] = prio;
+          if (claim(owner, fold, p, prio)) {
             map[2 * p] = u;
             map[2 * p + 1] = v;
             od![p] = bilinear1(src, W, H, u, v);
@@ -552,10 +549,7 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
             const ebd = (Xd - Xb) * (PY - Yb) - (Yd - Yb) * (PX - Xb);
             if (coversSnapped(ebd, s1, Xb, Yb, Xd, Yd) && coversSnapped(-ead, s1, Xd, Yd, Xa, Ya)) {
               const p = py * W + px;
-              const ow = owner[p]!;
-              if (ow !== 0) fold[p] = 1;
-              if (p1 > ow) {
-                owner[p] = p1;
+              if (claim(owner, fold, p, p1)) {
                 // Weights: b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
                 const wb = -ead * i1, wd = eab * i1;
                 map[2 * p] = u0 + wb + wd;
@@ -571,10 +565,7 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
             const eca = (Xa - Xc) * (PY - Yc) - (Ya - Yc) * (PX - Xc);
             if (coversSnapped(eca, s2, Xc, Yc, Xa, Ya)) {
               const p = py * W + px;
-              const ow = owner[p]!;
-              if (ow !== 0) fold[p] = 1;
-              if (p2 > ow) {
-                owner[p] = p2;
+              if (claim(owner, fold, p, p2)) {
                 // Weights: d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
                 const wd = eca * i2, wc = ead * i2;
                 map[2 * p] = u0 + wd;
