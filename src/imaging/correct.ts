@@ -8,7 +8,7 @@ import { checkFinite, checkImage, checkInteger, checkOneOf, checkOptions, checkP
 import type { Image, Mask } from '../core/index.js';
 import type { Surface } from '../surface/index.js';
 import type { CameraModel, CameraPose } from '../camera/index.js';
-import { bilinear1, interpolationCode, sampleInto } from './sample.js';
+import { interpolationCode, sampleInto } from './sample.js';
 import type { ImageInterpolation } from './sample.js';
 import type { ResolvedScene } from './scene.js';
 import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
@@ -16,7 +16,7 @@ import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint, referencePointTabulated } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
-import { TRI_STRIDE, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellsSnapped, snapVertices } from './raster.js';
+import { TRI_STRIDE, bilinear1, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellsSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
 import { cellEdgeCurvatures, mapSecondDerivatives } from './curvature.js';
 import type { RasterTarget } from './raster.js';

@@ -4,7 +4,24 @@
  *
  * @module
  */
-import { bilinear1 } from './sample.js';
+
+/**
+ * @internal One-channel bilinear sample of a W × H image (W, H ≥ 2) at (u, v), the
+ * position clamped to the image: the correction's one-channel kernels share it.
+ */
+export function bilinear1(src: Float32Array, W: number, H: number, u: number, v: number): number {
+  const Wm = W - 1, Hm = H - 1;
+  const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
+  const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
+  let i = uu | 0, j = vv | 0;
+  if (i > W - 2) i = W - 2;
+  if (j > H - 2) j = H - 2;
+  const fu = uu - i, fv = vv - j;
+  const k = j * W + i;
+  const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
+  const s0 = a0 + (a1 - a0) * fu;
+  return s0 + (b0 + (b1 - b0) * fu - s0) * fv;
+}
 
 /** @internal Buffers a rasterisation pass writes. */
 export interface RasterTarget {

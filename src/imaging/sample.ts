@@ -110,24 +110,6 @@ export function sampleInto(data: Float32Array, W: number, H: number, C: number, 
 }
 
 /**
- * @internal One-channel bilinear sample of a W × H image (W, H ≥ 2) at (u, v), the
- * position clamped to the image: the correction's one-channel kernels share it.
- */
-export function bilinear1(src: Float32Array, W: number, H: number, u: number, v: number): number {
-  const Wm = W - 1, Hm = H - 1;
-  const uu = u > 0 ? (u < Wm ? u : Wm) : 0;
-  const vv = v > 0 ? (v < Hm ? v : Hm) : 0;
-  let i = uu | 0, j = vv | 0;
-  if (i > W - 2) i = W - 2;
-  if (j > H - 2) j = H - 2;
-  const fu = uu - i, fv = vv - j;
-  const k = j * W + i;
-  const a0 = src[k]!, a1 = src[k + 1]!, b0 = src[k + W]!, b1 = src[k + W + 1]!;
-  const s0 = a0 + (a1 - a0) * fu;
-  return s0 + (b0 + (b1 - b0) * fu - s0) * fv;
-}
-
-/**
  * The image's value at a real-valued pixel position.
  *
  * Bilinear interpolation weights the four surrounding pixel centres; bicubic uses the
