@@ -8,6 +8,7 @@
 import { checkGrid, checkOneOf, checkOptions, rangeError } from '../core/index.js';
 import type { Grid } from '../core/index.js';
 import type { Surface, SurfaceBounds } from './types.js';
+import { checkMany } from './types.js';
 
 /** How a grid surface is interpolated between samples. */
 export type GridInterpolation = 'bicubic' | 'bilinear' | 'bspline';
@@ -138,6 +139,15 @@ function valueSpread(a: Float64Array, w: number, h: number): { lo: number; hi: n
   return { lo, hi, ddx, ddy };
 }
 
+/** `heightGradientMany` of a surface whose kernel is the one-point form. */
+function manyByPoint(f: (x: number, y: number, out: Float64Array) => number, xy: Float64Array, n: number, out: Float64Array, scratch: Float64Array): void {
+  for (let k = 0; k < n; k++) {
+    out[3 * k] = f(xy[2 * k]!, xy[2 * k + 1]!, scratch);
+    out[3 * k + 1] = scratch[0]!;
+    out[3 * k + 2] = scratch[1]!;
+  }
+}
+
 function domainOf(g: Grid): { xMin: number; xMax: number; yMin: number; yMax: number } {
   return { xMin: g.x0, xMax: g.x0 + (g.width - 1) * g.dx, yMin: g.y0, yMax: g.y0 + (g.height - 1) * g.dy };
 }
@@ -185,6 +195,10 @@ function bilinearSurface(g: Grid): Surface {
       heightGradient(x, y, out);
     },
     heightGradient,
+    heightGradientMany(xy, n, out) {
+      checkMany('Surface.heightGradientMany', xy, n, out);
+      manyByPoint(heightGradient, xy, n, out, tmp);
+    },
   };
 }
 
@@ -352,38 +366,51 @@ function cubicSurface(g: Grid, P: Float64Array, spline: boolean): Surface {
   const coef = (W - 1) * (H - 1) <= POLY_CELLS ? powerCoefficients(P, W, H, spline ? BSPLINE_BASIS : KEYS_BASIS) : null;
 
   // The same interpolant from each cell's precomputed power-basis coefficients (about half
-  // the arithmetic and one contiguous read); used when the table is small enough.
-  const heightGradientPoly = (x: number, y: number, out: Float64Array | number[]): number => {
+  // the arithmetic and one contiguous read); used when the table is small enough. The loop
+  // over many points is the kernel; the one-point form goes through it.
+  const manyPoly = (xy: Float64Array, n: number, out: Float64Array): void => {
     const c = coef!;
-    let u = (x - x0) * idx;
-    let v = (y - y0) * idy;
-    if (u < 0) u = 0;
-    else if (u > uMax) u = uMax;
-    if (v < 0) v = 0;
-    else if (v > vMax) v = vMax;
-    let i = Math.floor(u);
-    let j = Math.floor(v);
-    if (i > W - 2) i = W - 2;
-    if (j > H - 2) j = H - 2;
-    const t = u - i;
-    const s = v - j;
-    const k = 16 * (j * (W - 1) + i);
-    // h = Σ_m t^m q_m(s), q_m(s) = Σ_n c[k + 4m + n] s^n.
-    const c00 = c[k]!, c01 = c[k + 1]!, c02 = c[k + 2]!, c03 = c[k + 3]!;
-    const c10 = c[k + 4]!, c11 = c[k + 5]!, c12 = c[k + 6]!, c13 = c[k + 7]!;
-    const c20 = c[k + 8]!, c21 = c[k + 9]!, c22 = c[k + 10]!, c23 = c[k + 11]!;
-    const c30 = c[k + 12]!, c31 = c[k + 13]!, c32 = c[k + 14]!, c33 = c[k + 15]!;
-    const q0 = c00 + s * (c01 + s * (c02 + s * c03));
-    const q1 = c10 + s * (c11 + s * (c12 + s * c13));
-    const q2 = c20 + s * (c21 + s * (c22 + s * c23));
-    const q3 = c30 + s * (c31 + s * (c32 + s * c33));
-    const r0 = c01 + s * (2 * c02 + 3 * s * c03);
-    const r1 = c11 + s * (2 * c12 + 3 * s * c13);
-    const r2 = c21 + s * (2 * c22 + 3 * s * c23);
-    const r3 = c31 + s * (2 * c32 + 3 * s * c33);
-    out[0] = (q1 + t * (2 * q2 + 3 * t * q3)) * idx;
-    out[1] = (r0 + t * (r1 + t * (r2 + t * r3))) * idy;
-    return q0 + t * (q1 + t * (q2 + t * q3));
+    for (let e = 0; e < n; e++) {
+      let u = (xy[2 * e]! - x0) * idx;
+      let v = (xy[2 * e + 1]! - y0) * idy;
+      if (u < 0) u = 0;
+      else if (u > uMax) u = uMax;
+      if (v < 0) v = 0;
+      else if (v > vMax) v = vMax;
+      let i = Math.floor(u);
+      let j = Math.floor(v);
+      if (i > W - 2) i = W - 2;
+      if (j > H - 2) j = H - 2;
+      const t = u - i;
+      const s = v - j;
+      const k = 16 * (j * (W - 1) + i);
+      // h = Σ_m t^m q_m(s), q_m(s) = Σ_n c[k + 4m + n] s^n.
+      const c00 = c[k]!, c01 = c[k + 1]!, c02 = c[k + 2]!, c03 = c[k + 3]!;
+      const c10 = c[k + 4]!, c11 = c[k + 5]!, c12 = c[k + 6]!, c13 = c[k + 7]!;
+      const c20 = c[k + 8]!, c21 = c[k + 9]!, c22 = c[k + 10]!, c23 = c[k + 11]!;
+      const c30 = c[k + 12]!, c31 = c[k + 13]!, c32 = c[k + 14]!, c33 = c[k + 15]!;
+      const q0 = c00 + s * (c01 + s * (c02 + s * c03));
+      const q1 = c10 + s * (c11 + s * (c12 + s * c13));
+      const q2 = c20 + s * (c21 + s * (c22 + s * c23));
+      const q3 = c30 + s * (c31 + s * (c32 + s * c33));
+      const r0 = c01 + s * (2 * c02 + 3 * s * c03);
+      const r1 = c11 + s * (2 * c12 + 3 * s * c13);
+      const r2 = c21 + s * (2 * c22 + 3 * s * c23);
+      const r3 = c31 + s * (2 * c32 + 3 * s * c33);
+      out[3 * e] = q0 + t * (q1 + t * (q2 + t * q3));
+      out[3 * e + 1] = (q1 + t * (2 * q2 + 3 * t * q3)) * idx;
+      out[3 * e + 2] = (r0 + t * (r1 + t * (r2 + t * r3))) * idy;
+    }
+  };
+  const oneXY = new Float64Array(2);
+  const oneOut = new Float64Array(3);
+  const heightGradientPoly = (x: number, y: number, out: Float64Array | number[]): number => {
+    oneXY[0] = x;
+    oneXY[1] = y;
+    manyPoly(oneXY, 1, oneOut);
+    out[0] = oneOut[1]!;
+    out[1] = oneOut[2]!;
+    return oneOut[0]!;
   };
 
   const heightGradientWeights = (x: number, y: number, out: Float64Array | number[]): number => {
@@ -500,5 +527,10 @@ function cubicSurface(g: Grid, P: Float64Array, spline: boolean): Surface {
       heightGradient(x, y, out);
     },
     heightGradient,
+    heightGradientMany(xy, n, out) {
+      checkMany('Surface.heightGradientMany', xy, n, out);
+      if (coef !== null) manyPoly(xy, n, out);
+      else manyByPoint(heightGradientWeights, xy, n, out, tmp);
+    },
   };
 }

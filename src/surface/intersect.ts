@@ -96,6 +96,9 @@ export function checkSurface(fn: string, parameter: string, value: unknown): Sur
   for (const m of ['height', 'gradient', 'heightGradient'] as const) {
     if (typeof s[m] !== 'function') typeError(fn, `${parameter}.${m}`, s[m], 'a function');
   }
+  if (s.heightGradientMany !== undefined && typeof s.heightGradientMany !== 'function') {
+    typeError(fn, `${parameter}.heightGradientMany`, s.heightGradientMany, 'a function or undefined');
+  }
   const b = s.bounds;
   if (b === null || typeof b !== 'object') typeError(fn, `${parameter}.bounds`, b, 'a SurfaceBounds object');
   for (const k of ['xMin', 'xMax', 'yMin', 'yMax', 'zMin', 'zMax'] as const) {

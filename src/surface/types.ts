@@ -8,7 +8,7 @@
  *
  * @module
  */
-import { checkFinite, checkOptions, rangeError } from '../core/index.js';
+import { checkFinite, checkInteger, checkOptions, rangeError, typeError } from '../core/index.js';
 import type { MutableVec3 } from '../core/index.js';
 import { checkSurface } from './intersect.js';
 
@@ -79,6 +79,43 @@ export interface Surface {
   gradient(x: number, y: number, out: Float64Array | number[]): void;
   /** Height and slopes in one call: writes `p`, `q` into `out[0]`, `out[1]` and returns `h`. */
   heightGradient(x: number, y: number, out: Float64Array | number[]): number;
+  /**
+   * Optional: height and slopes at many points in one call, for the kernels that trace
+   * whole images (a loop inside one call is several times faster in JavaScript than a call
+   * a point). Reads the point `(xy[2k], xy[2k + 1])` for `k < n` and writes `h`, `p`, `q`
+   * into `out[3k]`, `out[3k + 1]`, `out[3k + 2]`; it must give exactly what
+   * `heightGradient` gives. Where it is absent, the library calls `heightGradient` point
+   * by point. The grid surfaces have it (and check their arguments once a call).
+   */
+  heightGradientMany?(xy: Float64Array, n: number, out: Float64Array): void;
+}
+
+/**
+ * @internal The checks of a `heightGradientMany` call (once a call, not a point): `xy` and
+ * `out` Float64Arrays long enough for `n` points, `n` a whole number.
+ */
+export function checkMany(fn: string, xy: unknown, n: unknown, out: unknown): void {
+  if (!(xy instanceof Float64Array)) typeError(fn, 'xy', xy, 'a Float64Array of packed x, y');
+  if (!(out instanceof Float64Array)) typeError(fn, 'out', out, 'a Float64Array for packed h, p, q');
+  const m = checkInteger(fn, 'n', n, 0, xy.length >> 1);
+  if (out.length < 3 * m) rangeError(fn, 'out.length', out.length, `at least 3·n = ${3 * m}`);
+}
+
+/**
+ * @internal Height and slopes of `surface` at `n` packed points (see
+ * {@link Surface.heightGradientMany}), through the surface's own batch method where it has
+ * one, else point by point.
+ */
+export function heightGradientMany(surface: Surface, xy: Float64Array, n: number, out: Float64Array, scratch: Float64Array): void {
+  if (surface.heightGradientMany !== undefined) {
+    surface.heightGradientMany(xy, n, out);
+    return;
+  }
+  for (let k = 0; k < n; k++) {
+    out[3 * k] = surface.heightGradient(xy[2 * k]!, xy[2 * k + 1]!, scratch);
+    out[3 * k + 1] = scratch[0]!;
+    out[3 * k + 2] = scratch[1]!;
+  }
 }
 
 /**

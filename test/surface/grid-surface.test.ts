@@ -287,3 +287,56 @@ describe('analytic surfaces', () => {
     expect(() => createGaussianSurface({ bumps: [{ amplitude: 1, x: 0, y: 0, sigmaX: 0 }], domain })).toThrow(MeniscusRangeError);
   });
 });
+
+describe('heightGradientMany (the batch form of heightGradient)', () => {
+  // Contract of Surface.heightGradientMany: exactly the numbers of heightGradient, point by
+  // point (the ray kernels switch between the two forms).
+  const f = (x: number, y: number): number => 0.002 * Math.sin(40 * x + 7 * y) + 0.001 * Math.cos(23 * y - 5 * x);
+  const cases: [string, Surface][] = [
+    ['bicubic', createGridSurface(gridFromFunction({ width: 30, height: 20, dx: 0.004 }, f))],
+    ['bspline', createGridSurface(gridFromFunction({ width: 30, height: 20, dx: 0.004 }, f), { interpolation: 'bspline' })],
+    ['bilinear', createGridSurface(gridFromFunction({ width: 30, height: 20, dx: 0.004 }, f), { interpolation: 'bilinear' })],
+    ['bicubic, large grid (weights form)', createGridSurface(gridFromFunction({ width: 300, height: 300, dx: 0.004 }, f))],
+  ];
+  for (const [name, s] of cases) {
+    it(`${name}: equals heightGradient bit for bit, outside the domain too (clamped)`, () => {
+      expect(typeof s.heightGradientMany).toBe('function');
+      const n = 257;
+      const xy = new Float64Array(2 * n);
+      for (let k = 0; k < n; k++) {
+        xy[2 * k] = -0.01 + 0.14 * ((k * 0.618034) % 1);
+        xy[2 * k + 1] = -0.01 + 0.1 * ((k * 0.414214) % 1);
+      }
+      const before = xy.slice();
+      const out = new Float64Array(3 * n);
+      s.heightGradientMany!(xy, n, out);
+      expect(xy).toEqual(before); // input not mutated
+      const g = new Float64Array(2);
+      for (let k = 0; k < n; k++) {
+        const h = s.heightGradient(xy[2 * k]!, xy[2 * k + 1]!, g);
+        expect(out[3 * k]).toBe(h);
+        expect(out[3 * k + 1]).toBe(g[0]);
+        expect(out[3 * k + 2]).toBe(g[1]);
+      }
+    });
+  }
+
+  it('refuses bad arguments by name, once a call', () => {
+    const s = cases[0]![1];
+    const xy = new Float64Array(8), out = new Float64Array(12);
+    expect(() => s.heightGradientMany!([0, 0] as never, 1, out)).toThrow(/xy/);
+    expect(() => s.heightGradientMany!(xy, 5, out)).toThrow(MeniscusRangeError); // 4 points in xy
+    expect(() => s.heightGradientMany!(xy, 1.5, out)).toThrow(/\bn\b/);
+    expect(() => s.heightGradientMany!(xy, 4, new Float64Array(11))).toThrow(/out\.length/);
+    expect(() => s.heightGradientMany!(xy, 4, [] as never)).toThrow(MeniscusTypeError);
+    s.heightGradientMany!(xy, 0, new Float64Array(0)); // nothing asked, nothing written
+  });
+
+  it('is optional: surfaces without it are accepted; a non-function is refused by name', async () => {
+    const { checkSurface } = await import('../../src/surface/index.js');
+    const plane = createPlaneSurface({ slopeX: 0.1, domain: { xMin: -1, xMax: 1, yMin: -1, yMax: 1 } });
+    expect(plane.heightGradientMany).toBeUndefined();
+    expect(checkSurface('f', 'surface', plane)).toBe(plane);
+    expect(() => checkSurface('f', 'surface', { ...plane, heightGradientMany: 3 })).toThrow(/surface\.heightGradientMany/);
+  });
+});
