@@ -11,10 +11,11 @@ import type { CameraModel, CameraPose } from '../camera/index.js';
 import { interpolationCode, sampleInto } from './sample.js';
 import type { ImageInterpolation } from './sample.js';
 import type { ResolvedScene } from './scene.js';
-import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
+import { checkCamera, checkPoseValue, traceBatch, traceBatchScratch, traceContext, traceRay, worldRays } from './trace.js';
+import type { TraceBatchScratch } from './trace.js';
 import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
-import { flatContext, referencePoint, referencePointTabulated } from './flat.js';
+import { flatContext, referencePoint, referencePoints } from './flat.js';
 import type { CorrectionReference, FlatContext } from './flat.js';
 import { TRI_STRIDE, bilinear1, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellsSnapped, snapVertices } from './raster.js';
 import { hermitePatches, refineMap } from './hermite.js';
@@ -314,6 +315,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   let flatCache: { below: boolean; fl: FlatContext } | null = null;
   // Scratch reused frame after frame.
   const owner = new Uint8Array(W * H);
+  const meshScratch = meshTraceScratch(MC);
 
   const correct = (distorted: Image, surface: Surface, copts?: CorrectOptions): CorrectionResult => {
     const cfn = 'PreparedCorrection.correct';
@@ -351,7 +353,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     const fl = flatCache.fl;
     const t0 = now();
     const ro = rays.origins, rd = rays.directions, rs = rays.status;
-    const traced = traceMesh(ctx, fl, rays.origins, rays.directions, rays.status, MC, tHit, cpts, vstat);
+    const traced = traceMesh(ctx, fl, rays.origins, rays.directions, rays.status, MC, tHit, cpts, vstat, meshScratch);
     cam.projectBatch(cpts, { out: outPix, status: projStat });
     let invalidVertices = 0;
     for (let k = 0; k < NV; k++) {
@@ -454,9 +456,9 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
 /**
  * Trace the mesh's rays through the surface to the scene and their reference points
  * (camera-frame points to project) into `cpts`, statuses into `vstat`; rays without a
- * path get a point behind the camera. Each ray starts its surface search from the
- * distance extrapolated from up to four previous vertices' hits along its mesh row.
- * Returns the rays traced.
+ * path get a point behind the camera. The rays go a mesh row at a time; each starts its
+ * surface search from the distance extrapolated from up to four previous rows' hits in
+ * its column. Returns the rays traced.
  */
 function traceMesh(
   ctx: TraceContext,
@@ -468,43 +470,76 @@ function traceMesh(
   tHit: Float64Array | null,
   cpts: Float64Array,
   vstat: Uint8Array,
+  scr: MeshTraceScratch,
 ): number {
-  const hit = new Float64Array(6);
-  const res = new Float64Array(6);
-  const NV = vstat.length;
-  // Scene points on the tabulated plane (a plane target seen through flat water by a
-  // central camera) take the short path.
-  const tabulated = fl.table !== null && ctx.scene.kind === 1 && Math.abs(ctx.scene.z - fl.planeZ) <= 1e-12 * (1 + Math.abs(fl.planeZ));
+  const NV = vstat.length, MR = NV / MC;
+  // the last four rows' hit distances by column, newest first (NaN: none)
+  let t1 = scr.t1, t2 = scr.t2, t3 = scr.t3, t4 = scr.t4;
+  t1.fill(NaN);
+  t2.fill(NaN);
+  t3.fill(NaN);
+  t4.fill(NaN);
+  const { guess, stat, pts, batch } = scr;
   let traced = 0;
-  // the last four hit distances along the mesh row, newest first (NaN: none)
-  let t1 = NaN, t2 = NaN, t3 = NaN, t4 = NaN;
-  for (let k = 0; k < NV; k++) {
-    let st: number = rs[k]!;
-    const a = 3 * k;
-    if (k % MC === 0) t1 = t2 = t3 = t4 = NaN;
-    if (st === S_OK) {
-      // polynomial extrapolation of the distance from as many previous hits as there are
-      // (up to cubic: its error is the distance's fourth difference, far below the
-      // tolerance on a smooth surface, so most rays settle at their first evaluation)
-      const guess = t4 === t4 ? 4 * t1 - 6 * t2 + 4 * t3 - t4 : t3 === t3 ? 3 * t1 - 3 * t2 + t3 : t2 === t2 ? 2 * t1 - t2 : t1;
-      st = traceRay(ctx, ro[a]!, ro[a + 1]!, ro[a + 2]!, rd[a]!, rd[a + 1]!, rd[a + 2]!, hit, res, guess);
-      if (st === S_OK || st === S_TIR || st === S_OUTSIDE) {
-        t4 = t3;
-        t3 = t2;
-        t2 = t1;
-        t1 = hit[0]!;
-      } else t1 = t2 = t3 = t4 = NaN;
-      if (tHit !== null) tHit[k] = hit[0]!;
-      if (st === S_OK) st = tabulated ? referencePointTabulated(fl, res[0]!, res[1]!, cpts, a) : referencePoint(fl, res[0]!, res[1]!, res[2]!, cpts, a);
+  for (let j = 0; j < MR; j++) {
+    const k0 = j * MC;
+    // polynomial extrapolation of the distance from as many previous hits as there are
+    // (up to cubic: its error is the distance's fourth difference, far below the
+    // tolerance on a smooth surface, so most rays settle at their first evaluation)
+    for (let i = 0; i < MC; i++) {
+      const a1 = t1[i]!, a2 = t2[i]!, a3 = t3[i]!, a4 = t4[i]!;
+      guess[i] = a4 === a4 ? 4 * a1 - 6 * a2 + 4 * a3 - a4 : a3 === a3 ? 3 * a1 - 3 * a2 + a3 : a2 === a2 ? 2 * a1 - a2 : a1;
     }
-    if (st !== S_OK) {
-      cpts[a] = 0;
-      cpts[a + 1] = 0;
-      cpts[a + 2] = -1; // behind the camera: projects as outside
-    } else traced++;
-    vstat[k] = st;
+    // the oldest row's buffer takes this row's hits
+    const tn = t4;
+    t4 = t3;
+    t3 = t2;
+    t2 = t1;
+    t1 = tn;
+    traceBatch(ctx, ro, rd, rs, k0, MC, guess, stat, pts, t1, batch);
+    for (let i = 0; i < MC; i++) {
+      // a hit continues its column's history; a ray that missed the surface breaks it
+      if (!(t1[i]! === t1[i]!)) t2[i] = t3[i] = t4[i] = NaN;
+    }
+    if (tHit !== null) tHit.set(t1, k0);
+    referencePoints(fl, pts, stat, MC, cpts, k0);
+    for (let i = 0; i < MC; i++) {
+      const st = stat[i]!;
+      const a = 3 * (k0 + i);
+      if (st !== S_OK) {
+        cpts[a] = 0;
+        cpts[a + 1] = 0;
+        cpts[a + 2] = -1; // behind the camera: projects as outside
+      } else traced++;
+      vstat[k0 + i] = st;
+    }
   }
   return traced;
+}
+
+/** Buffers of {@link traceMesh} for a mesh row, reused frame after frame. */
+interface MeshTraceScratch {
+  t1: Float64Array;
+  t2: Float64Array;
+  t3: Float64Array;
+  t4: Float64Array;
+  guess: Float64Array;
+  stat: Uint8Array;
+  pts: Float64Array;
+  batch: TraceBatchScratch;
+}
+
+function meshTraceScratch(MC: number): MeshTraceScratch {
+  return {
+    t1: new Float64Array(MC),
+    t2: new Float64Array(MC),
+    t3: new Float64Array(MC),
+    t4: new Float64Array(MC),
+    guess: new Float64Array(MC),
+    stat: new Uint8Array(MC),
+    pts: new Float64Array(3 * MC),
+    batch: traceBatchScratch(MC),
+  };
 }
 
 /**

@@ -190,29 +190,45 @@ export function referencePoint(f: FlatContext, a: number, b: number, c: number, 
 }
 
 /**
- * @internal {@link referencePoint} for the common case it tabulates (central camera, flat
- * water, a plane scene at the table's height): the same numbers, with the table's cubic
- * Hermite interpolation inlined and the rest of the cases left out. Falls back to
- * {@link referencePoint} beyond the table.
+ * @internal {@link referencePoint} for `n` scene points at once: the point of batch entry
+ * `e` is `pts[3e..3e+2]`, taken where `stat[e]` is `ok`; its camera-frame point goes to
+ * `out[3(k0 + e)..]` and a failure into `stat[e]`. The common case the table covers
+ * (central camera, flat water, a plane scene at the table's height) has the same numbers
+ * as `referencePoint` with the table's cubic Hermite interpolation inlined; everything
+ * else, and points beyond the table, go through `referencePoint`.
  */
-export function referencePointTabulated(f: FlatContext, a: number, b: number, out: Float64Array, o: number): number {
-  const tb = f.table!;
+export function referencePoints(f: FlatContext, pts: Float64Array, stat: Uint8Array, n: number, out: Float64Array, k0: number): void {
+  const tb = f.table;
+  const tabulated = tb !== null && f.kind === 1;
   const C = f.pose.position, m = f.pose.rotation;
   const cx = C[0], cy = C[1], cz = C[2];
-  const ex = a - cx, ey = b - cy;
-  const rho = Math.sqrt(ex * ex + ey * ey);
-  let s = 0;
-  if (rho > 0) {
-    const x = rho / f.tableStep;
-    const k = Math.floor(x);
-    if (!(k < TABLE_SIZE - 1)) return referencePoint(f, a, b, f.planeZ, out, o);
-    const h = f.tableStep, t = x - k, t2 = t * t, t3 = t2 * t;
-    const p0 = tb[2 * k]!, m0 = tb[2 * k + 1]!, p1 = tb[2 * k + 2]!, m1 = tb[2 * k + 3]!;
-    s = ((2 * t3 - 3 * t2 + 1) * p0 + (t3 - 2 * t2 + t) * h * m0 + (-2 * t3 + 3 * t2) * p1 + (t3 - t2) * h * m1) / rho;
+  const m0 = m[0], m1 = m[1], m2 = m[2], m3 = m[3], m4 = m[4], m5 = m[5], m6 = m[6], m7 = m[7], m8 = m[8];
+  const h = f.tableStep, wz = f.level - cz;
+  for (let e = 0; e < n; e++) {
+    if (stat[e] !== S_OK) continue;
+    const a = pts[3 * e]!, b = pts[3 * e + 1]!, c = pts[3 * e + 2]!;
+    const o = 3 * (k0 + e);
+    if (!tabulated || !(Math.abs(c - f.planeZ) <= 1e-12 * (1 + Math.abs(c)))) {
+      stat[e] = referencePoint(f, a, b, c, out, o);
+      continue;
+    }
+    const ex = a - cx, ey = b - cy;
+    const rho = Math.sqrt(ex * ex + ey * ey);
+    let s = 0;
+    if (rho > 0) {
+      const x = rho / h;
+      const k = Math.floor(x);
+      if (!(k < TABLE_SIZE - 1)) {
+        stat[e] = referencePoint(f, a, b, c, out, o);
+        continue;
+      }
+      const t = x - k, t2 = t * t, t3 = t2 * t;
+      const p0 = tb[2 * k]!, d0 = tb[2 * k + 1]!, p1 = tb[2 * k + 2]!, d1 = tb[2 * k + 3]!;
+      s = ((2 * t3 - 3 * t2 + 1) * p0 + (t3 - 2 * t2 + t) * h * d0 + (-2 * t3 + 3 * t2) * p1 + (t3 - t2) * h * d1) / rho;
+    }
+    const wx = s * ex, wy = s * ey;
+    out[o] = m0 * wx + m3 * wy + m6 * wz;
+    out[o + 1] = m1 * wx + m4 * wy + m7 * wz;
+    out[o + 2] = m2 * wx + m5 * wy + m8 * wz;
   }
-  const wx = s * ex, wy = s * ey, wz = f.level - cz;
-  out[o] = m[0] * wx + m[3] * wy + m[6] * wz;
-  out[o + 1] = m[1] * wx + m[4] * wy + m[7] * wz;
-  out[o + 2] = m[2] * wx + m[5] * wy + m[8] * wz;
-  return S_OK;
 }

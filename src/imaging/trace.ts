@@ -8,6 +8,7 @@
 import { checkOptions, checkPositive, rangeError, Status, typeError } from '../core/index.js';
 import type { Surface } from '../surface/index.js';
 import { checkSurface, intersectSurface } from '../surface/index.js';
+import { heightGradientMany } from '../surface/types.js';
 import type { CameraModel, CameraPose } from '../camera/index.js';
 import { checkRotation } from '../camera/index.js';
 import type { ResolvedScene } from './scene.js';
@@ -120,13 +121,14 @@ export function traceContext(
  * at most one crossing inside the bounds box and a safeguarded Newton iteration finds it
  * from the crossing of the mean level (or from `guess`, tried first on its own: a root it
  * reaches in front of the ray's origin over the domain is that only crossing).
- * Otherwise the general marching intersector of the surface area is used.
+ * Otherwise the general marching intersector of the surface area is used. With `warm`
+ * false the warm start is skipped (its steps were already taken, by {@link traceBatch})
+ * and `guess` only seeds the bracketed search.
  */
-export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, res: Float64Array, guess = NaN): number {
+export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, res: Float64Array, guess = NaN, warm = true): number {
   const s = ctx.surface!;
   const b = s.bounds;
-  const horiz = Math.sqrt(dx * dx + dy * dy);
-  if (!(Math.abs(dz) > s.maxSlope * horiz * (1 + 1e-9))) {
+  if (!monotone(s, dx, dy, dz)) {
     const h = intersectSurface(s, [ox, oy, oz], [dx, dy, dz], { tolerance: ctx.tol });
     if (h.status !== 'ok') return Status[h.status];
     res[0] = h.t;
@@ -139,7 +141,7 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
   }
   const grad = ctx.grad;
   const tol = ctx.tol;
-  if (guess === guess) {
+  if (warm && guess === guess) {
     // Warm start: with g monotone along the ray, a root in front of the camera whose
     // point lies over the domain is the only crossing, so a few Newton steps from a good
     // guess settle it without the bounds box.
@@ -212,6 +214,11 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
   return S_NOTCONVERGED;
 }
 
+/** Whether the clearance along the ray is strictly monotone: `|dz| > maxSlope·|d_xy|` (see {@link hitSurface}). */
+function monotone(s: Surface, dx: number, dy: number, dz: number): boolean {
+  return Math.abs(dz) > s.maxSlope * Math.sqrt(dx * dx + dy * dy) * (1 + 1e-9);
+}
+
 /**
  * The hit at distance t (point and slopes there) into res[1..5]; res[0] gets `tNext`,
  * the distance one more Newton step would give (t itself when unknown or not finite),
@@ -240,50 +247,189 @@ function finish(ox: number, oy: number, oz: number, dx: number, dy: number, dz: 
  * normal facing the ray, `c1 = −n·i`, `k = 1 − η²(1 − c1²)` (total internal reflection
  * when `k < 0`) — the same law as `refract` of the optics area, inlined for the loop.
  */
-export function traceRay(ctx: TraceContext, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, hit: Float64Array, res: Float64Array, guess = NaN): number {
-  let tx = dx, ty = dy, tz = dz;
-  let px = ox, py = oy, pz = oz;
-  if (ctx.surface !== null) {
-    const st = hitSurface(ctx, ox, oy, oz, dx, dy, dz, hit, guess);
-    if (st !== S_OK) return st;
-    px = hit[1]!;
-    py = hit[2]!;
-    pz = hit[3]!;
-    const p = hit[4]!, q = hit[5]!;
-    const inv = 1 / Math.sqrt(1 + p * p + q * q);
-    let nx = -p * inv, ny = -q * inv, nz = inv;
-    let c = nx * dx + ny * dy + nz * dz;
-    if (c > 0) {
-      nx = -nx;
-      ny = -ny;
-      nz = -nz;
-      c = -c;
-    }
-    const eta = ctx.eta;
-    const k = 1 - eta * eta * (1 - c * c);
-    if (k < 0) return S_TIR;
-    const f = -eta * c - Math.sqrt(k);
-    tx = eta * dx + f * nx;
-    ty = eta * dy + f * ny;
-    tz = eta * dz + f * nz;
+export function traceRay(ctx: TraceContext, ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, hit: Float64Array, res: Float64Array, guess = NaN, warm = true): number {
+  if (ctx.surface === null) {
+    res[3] = ox;
+    res[4] = oy;
+    res[5] = oz;
+    return toScene(ctx, ox, oy, oz, dx, dy, dz, res, 0);
   }
-  res[3] = px;
-  res[4] = py;
-  res[5] = pz;
+  const st = hitSurface(ctx, ox, oy, oz, dx, dy, dz, hit, guess, warm);
+  if (st !== S_OK) return st;
+  res[3] = hit[1]!;
+  res[4] = hit[2]!;
+  res[5] = hit[3]!;
+  return refractToScene(ctx, dx, dy, dz, hit[1]!, hit[2]!, hit[3]!, hit[4]!, hit[5]!, res, 0);
+}
+
+/**
+ * The unit ray `d` refracted at the surface point `P` of slopes `(p, q)` and carried to
+ * the scene: the scene point or direction into out[o..o+2] (see {@link traceRay}).
+ * Small on purpose, so that the compiler inlines it into the loops that call it.
+ */
+function refractToScene(ctx: TraceContext, dx: number, dy: number, dz: number, px: number, py: number, pz: number, p: number, q: number, out: Float64Array, o: number): number {
+  const inv = 1 / Math.sqrt(1 + p * p + q * q);
+  let nx = -p * inv, ny = -q * inv, nz = inv;
+  let c = nx * dx + ny * dy + nz * dz;
+  if (c > 0) {
+    nx = -nx;
+    ny = -ny;
+    nz = -nz;
+    c = -c;
+  }
+  const eta = ctx.eta;
+  const k = 1 - eta * eta * (1 - c * c);
+  if (k < 0) return S_TIR;
+  const f = -eta * c - Math.sqrt(k);
+  return toScene(ctx, px, py, pz, eta * dx + f * nx, eta * dy + f * ny, eta * dz + f * nz, out, o);
+}
+
+/** The ray from P along t to the scene: its point on the plane, or t itself for the sky, into out[o..o+2]. */
+function toScene(ctx: TraceContext, px: number, py: number, pz: number, tx: number, ty: number, tz: number, out: Float64Array, o: number): number {
   const sc = ctx.scene;
   if (sc.kind === 0) {
     if (!(tz > 0)) return S_OUTSIDE;
-    res[0] = tx;
-    res[1] = ty;
-    res[2] = tz;
+    out[o] = tx;
+    out[o + 1] = ty;
+    out[o + 2] = tz;
     return S_OK;
   }
   const sp = (sc.z - pz) / tz;
   if (!(sp > 0) || !Number.isFinite(sp)) return S_OUTSIDE;
-  res[0] = px + sp * tx;
-  res[1] = py + sp * ty;
-  res[2] = sc.z;
+  out[o] = px + sp * tx;
+  out[o + 1] = py + sp * ty;
+  out[o + 2] = sc.z;
   return S_OK;
+}
+
+/** @internal Buffers of {@link traceBatch} for up to `n` rays a call, reused call after call. */
+export interface TraceBatchScratch {
+  readonly n: number;
+  /** Points asked of the surface, packed x, y. */
+  readonly xy: Float64Array;
+  /** The surface's answers, packed h, p, q. */
+  readonly hpq: Float64Array;
+  /** Each pending ray's current distance. */
+  readonly t: Float64Array;
+  /** Pending rays (index into the batch). */
+  readonly list: Int32Array;
+  readonly hit: Float64Array;
+  readonly res: Float64Array;
+  readonly grad: Float64Array;
+}
+
+/** @internal */
+export function traceBatchScratch(n: number): TraceBatchScratch {
+  return {
+    n,
+    xy: new Float64Array(2 * n),
+    hpq: new Float64Array(3 * n),
+    t: new Float64Array(n),
+    list: new Int32Array(n),
+    hit: new Float64Array(6),
+    res: new Float64Array(6),
+    grad: new Float64Array(2),
+  };
+}
+
+/**
+ * @internal {@link traceRay} for the rays `k0 ≤ k < k0 + n` of packed origins `ro`,
+ * directions `rd` and camera statuses `rs`, each from the starting distance `guess[e]`
+ * (`e = k − k0`; NaN: none). Writes its status into `stat[e]`, the scene point or
+ * direction into `pts[3e..3e+2]` and the refined hit distance into `tHit[e]` (NaN when the
+ * ray never reached the surface); the results are those of `traceRay` with the same
+ * guess.
+ *
+ * The warm-started Newton steps of {@link hitSurface} are taken for all the rays together,
+ * the surface evaluated once a step for all rays still pending
+ * ({@link Surface.heightGradientMany}); rays without a guess, whose clearance need not be
+ * monotone, or not settled in three steps, go through `traceRay` one by one.
+ */
+export function traceBatch(
+  ctx: TraceContext,
+  ro: Float64Array,
+  rd: Float64Array,
+  rs: Uint8Array,
+  k0: number,
+  n: number,
+  guess: Float64Array,
+  stat: Uint8Array,
+  pts: Float64Array,
+  tHit: Float64Array,
+  scr: TraceBatchScratch,
+): void {
+  const s = ctx.surface;
+  const { xy, hpq, t: tt, list, hit, res, grad } = scr;
+  if (n > scr.n) rangeError('traceBatch', 'n', n, `at most the scratch size ${scr.n}`);
+  let m = 0;
+  if (s !== null) {
+    const b = s.bounds;
+    for (let e = 0; e < n; e++) {
+      const a = 3 * (k0 + e);
+      const g = guess[e]!;
+      stat[e] = S_NOTCONVERGED; // pending
+      tHit[e] = NaN;
+      if (rs[k0 + e] !== S_OK) {
+        stat[e] = rs[k0 + e]!;
+        continue;
+      }
+      const dx = rd[a]!, dy = rd[a + 1]!, dz = rd[a + 2]!;
+      if (g === g && monotone(s, dx, dy, dz)) {
+        list[m] = e;
+        tt[m] = g;
+        m++;
+      }
+    }
+    // The warm start, three steps at most (as in hitSurface).
+    for (let it = 0; it < 3 && m > 0; it++) {
+      for (let l = 0; l < m; l++) {
+        const a = 3 * (k0 + list[l]!), t = tt[l]!;
+        xy[2 * l] = ro[a]! + t * rd[a]!;
+        xy[2 * l + 1] = ro[a + 1]! + t * rd[a + 1]!;
+      }
+      heightGradientMany(s, xy, m, hpq, grad);
+      let m2 = 0;
+      for (let l = 0; l < m; l++) {
+        const e = list[l]!, a = 3 * (k0 + e), t = tt[l]!;
+        const dx = rd[a]!, dy = rd[a + 1]!, dz = rd[a + 2]!;
+        const p = hpq[3 * l + 1]!, q = hpq[3 * l + 2]!;
+        const g = ro[a + 2]! + t * dz - hpq[3 * l]!;
+        const step = g / (dz - (p * dx + q * dy));
+        if (Math.abs(g) <= ctx.tol) {
+          const x = xy[2 * l]!, y = xy[2 * l + 1]!;
+          // Settled; in front of the camera and over the domain it is the only crossing,
+          // else the bracketed search decides (left pending).
+          if (t >= 0 && x >= b.xMin && x <= b.xMax && y >= b.yMin && y <= b.yMax) {
+            const tn = t - step;
+            tHit[e] = Number.isFinite(tn) ? tn : t;
+            stat[e] = refractToScene(ctx, dx, dy, dz, x, y, ro[a + 2]! + t * dz, p, q, pts, 3 * e);
+          }
+          continue;
+        }
+        list[m2] = e;
+        tt[m2] = t - step;
+        m2++;
+      }
+      m = m2;
+    }
+  }
+  // Everything still pending, one ray at a time; the warm start is not repeated for rays
+  // that took it.
+  for (let e = 0; e < n; e++) {
+    if (stat[e] !== S_NOTCONVERGED) continue;
+    const a = 3 * (k0 + e);
+    const dx = rd[a]!, dy = rd[a + 1]!, dz = rd[a + 2]!;
+    const g = guess[e]!;
+    const tookWarm = s !== null && g === g && monotone(s, dx, dy, dz);
+    const st = traceRay(ctx, ro[a]!, ro[a + 1]!, ro[a + 2]!, dx, dy, dz, hit, res, g, !tookWarm);
+    stat[e] = st;
+    if (s !== null && (st === S_OK || st === S_TIR || st === S_OUTSIDE)) tHit[e] = hit[0]!;
+    if (st === S_OK) {
+      pts[3 * e] = res[0]!;
+      pts[3 * e + 1] = res[1]!;
+      pts[3 * e + 2] = res[2]!;
+    }
+  }
 }
 
 /** @internal World rays of packed pixels for a camera at a pose. */
