@@ -29,6 +29,10 @@ import type {
 /** Tolerance of the inverse distortion, in normalised image coordinates (|Δ| of x″, y″). */
 export const UNDISTORT_TOLERANCE = 1e-12;
 
+// Status codes as local constants (read once, not through the module namespace in loops).
+const S_OK = Status.ok;
+const S_OUTSIDE = Status.outside;
+
 /** Iteration cap of the inverse distortion. */
 export const UNDISTORT_MAX_ITERATIONS = 50;
 
@@ -200,6 +204,28 @@ export class PinholeCamera implements CameraModel {
     const { fx, fy, cx, cy, k1, k2, k3, k4, k5, k6, p1, p2 } = this;
     const lim = this.fieldRadius2;
     const n = st.length;
+    const OK = S_OK, OUTSIDE = S_OUTSIDE;
+    if (!this.distorted) {
+      // The same numbers without the distortion terms (all zero): u = fx·x′ + cx.
+      for (let i = 0, j = 0, k = 0; i < n; i++, j += 2, k += 3) {
+        const z = points[k + 2]!;
+        const iz = 1 / z;
+        const x = points[k]! * iz, y = points[k + 1]! * iz;
+        const s = x * x + y * y;
+        const u = fx * x + cx, v = fy * y + cy;
+        // s overflowing is outside, as in the general form (whose terms then give NaN)
+        if (!(z > 0 && s <= lim && s < Infinity) || !Number.isFinite(u) || !Number.isFinite(v)) {
+          out[j] = NaN;
+          out[j + 1] = NaN;
+          st[i] = OUTSIDE;
+          continue;
+        }
+        out[j] = u;
+        out[j + 1] = v;
+        st[i] = OK;
+      }
+      return res;
+    }
     const rational = k4 !== 0 || k5 !== 0 || k6 !== 0;
     const tp1 = 2 * p1, tp2 = 2 * p2;
     for (let i = 0, j = 0, k = 0; i < n; i++, j += 2, k += 3) {
@@ -210,7 +236,7 @@ export class PinholeCamera implements CameraModel {
       if (!(z > 0 && s <= lim)) {
         out[j] = NaN;
         out[j + 1] = NaN;
-        st[i] = Status.outside;
+        st[i] = OUTSIDE;
         continue;
       }
       let radial = 1 + s * (k1 + s * (k2 + s * k3));
@@ -222,12 +248,12 @@ export class PinholeCamera implements CameraModel {
         // so far off axis that the pixel overflows (no field limit without distortion)
         out[j] = NaN;
         out[j + 1] = NaN;
-        st[i] = Status.outside;
+        st[i] = OUTSIDE;
         continue;
       }
       out[j] = u;
       out[j + 1] = v;
-      st[i] = Status.ok;
+      st[i] = OK;
     }
     return res;
   }

@@ -216,7 +216,8 @@ export function hitSurface(ctx: TraceContext, ox: number, oy: number, oz: number
 
 /** Whether the clearance along the ray is strictly monotone: `|dz| > maxSlope·|d_xy|` (see {@link hitSurface}). */
 function monotone(s: Surface, dx: number, dy: number, dz: number): boolean {
-  return Math.abs(dz) > s.maxSlope * Math.sqrt(dx * dx + dy * dy) * (1 + 1e-9);
+  const m = s.maxSlope * (1 + 1e-9);
+  return dz * dz > m * m * (dx * dx + dy * dy);
 }
 
 /**
