@@ -239,9 +239,9 @@ const SNAP = 256;
 const SNAP_LIMIT = 32768;
 
 /**
- * `⌈f⌉` as an int32, clamped to `[lo − 2, hi + 2]`: a span end estimated outside the
- * row's `[lo, hi]` only has to stay outside it (the ±1 settling step cannot bring it
- * back in). Never −0, never beyond int32, so the rasteriser's loops keep integer code.
+ * `⌈f⌉` as an int32, clamped to `[lo − 2, hi + 2]`: a span end outside the row's
+ * `[lo, hi]` only has to stay outside it. Never −0, never beyond int32, so the
+ * rasteriser's loops keep integer code.
  */
 function ceilIn(f: number, lo: number, hi: number): number {
   return f < lo - 2 ? lo - 2 : f > hi + 2 ? hi + 2 : Math.ceil(f) | 0;
@@ -357,13 +357,14 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
     // Edge e from a to b: E(px, py) = (Xb − Xa)(S·py − Ya) − (Yb − Ya)(S·px − Xa), integer.
     // Per row E = C + A·px with A = −S·(Yb − Ya), and C grows by S·(Xb − Xa) a row. Inside:
     // E ≥ m with m = 0, or 1 where the edge does not own its ties (the rule of `owns`). The
-    // span's end from an edge is the root of C + A·x = m, estimated in floating point and
-    // settled by the exact integer test.
+    // span's end from an edge is ⌈(m − C)/A⌉ (A > 0) or ⌊(m − C)/A⌋ (A < 0), exact in
+    // floating point: the quotient q of two integers with |m − C| < 2⁵³ is either an
+    // integer (the division is then exact) or at least 1/|A| from one, farther than its
+    // rounding error |q|·2⁻⁵³, so rounding cannot carry it across an integer.
     const A0 = -SNAP * (Y2 - Y1), A1 = -SNAP * (Y0 - Y2), A2 = -SNAP * (Y1 - Y0);
     const m0 = Y2 - Y1 > 0 || (Y2 === Y1 && X2 > X1) ? 0 : 1;
     const m1 = Y0 - Y2 > 0 || (Y0 === Y2 && X0 > X2) ? 0 : 1;
     const m2 = Y1 - Y0 > 0 || (Y1 === Y0 && X1 > X0) ? 0 : 1;
-    const r0 = A0 !== 0 ? 1 / A0 : 0, r1 = A1 !== 0 ? 1 / A1 : 0, r2 = A2 !== 0 ? 1 / A2 : 0;
     const PY0 = SNAP * minY;
     let C0 = (X2 - X1) * (PY0 - Y1) + (Y2 - Y1) * X1;
     let C1 = (X0 - X2) * (PY0 - Y2) + (Y0 - Y2) * X2;
@@ -384,14 +385,14 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       Math.min(sv0, sv1, sv2) - qv > 0 && Math.max(sv0, sv1, sv2) + qv < Hm;
     for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
       let lo = minX, hi = maxX;
-      if (A0 > 0) { let x = ceilIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x - 1) >= m0) x--; else if (C0 + A0 * x < m0) x++; if (x > lo) lo = x; }
-      else if (A0 < 0) { let x = floorIn((m0 - C0) * r0, minX, maxX); if (C0 + A0 * (x + 1) >= m0) x++; else if (C0 + A0 * x < m0) x--; if (x < hi) hi = x; }
+      if (A0 > 0) { const x = ceilIn((m0 - C0) / A0, minX, maxX); if (x > lo) lo = x; }
+      else if (A0 < 0) { const x = floorIn((m0 - C0) / A0, minX, maxX); if (x < hi) hi = x; }
       else if (C0 < m0) continue;
-      if (A1 > 0) { let x = ceilIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x - 1) >= m1) x--; else if (C1 + A1 * x < m1) x++; if (x > lo) lo = x; }
-      else if (A1 < 0) { let x = floorIn((m1 - C1) * r1, minX, maxX); if (C1 + A1 * (x + 1) >= m1) x++; else if (C1 + A1 * x < m1) x--; if (x < hi) hi = x; }
+      if (A1 > 0) { const x = ceilIn((m1 - C1) / A1, minX, maxX); if (x > lo) lo = x; }
+      else if (A1 < 0) { const x = floorIn((m1 - C1) / A1, minX, maxX); if (x < hi) hi = x; }
       else if (C1 < m1) continue;
-      if (A2 > 0) { let x = ceilIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x - 1) >= m2) x--; else if (C2 + A2 * x < m2) x++; if (x > lo) lo = x; }
-      else if (A2 < 0) { let x = floorIn((m2 - C2) * r2, minX, maxX); if (C2 + A2 * (x + 1) >= m2) x++; else if (C2 + A2 * x < m2) x--; if (x < hi) hi = x; }
+      if (A2 > 0) { const x = ceilIn((m2 - C2) / A2, minX, maxX); if (x > lo) lo = x; }
+      else if (A2 < 0) { const x = floorIn((m2 - C2) / A2, minX, maxX); if (x < hi) hi = x; }
       else if (C2 < m2) continue;
       if (lo > hi) continue;
       const row = py * W;
