@@ -540,6 +540,79 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
     if (Yc < lo) lo = Yc; else if (Yc > hi) hi = Yc;
     if (Yd < lo) lo = Yd; else if (Yd > hi) hi = Yd;
     let minY = (lo + SNAP - 1) >> 8, maxY = hi >> 8;
+    if (maxX - minX <= 1 && maxY - minY <= 1 && minX >= 0 && minY >= 0 && minX < W - 1 && minY < H - 1) {
+      // The common cell: at most 2 × 2 pixel centres in its box, all in the image. The
+      // eight (centre, triangle) coverage tests are made without a branch on int32
+      // values, then only the covered pairs visited, in the order of the general loop
+      // below (rows, then columns, triangle 1 before 2 at a centre).
+      //
+      // Corners relative to the box's first centre (X0, Y0), within 3 px of it, so all
+      // below is exact int32. The edge P → Q has e(x, y) = P×Q + (Qx − Px)·y − (Qy − Py)·x
+      // there (cross product P×Q = Px·Qy − Py·Qx), and the coverage value
+      // E = 2·sg·e + (owned ? 1 : −1) for a triangle of orientation sg = ±1: odd, never 0,
+      // and positive exactly where the exact rule covers (e > 0, or e = 0 on an edge the
+      // tie rule of `owns` gives its pixels: sg·(256·ey + ex) > 0). A centre is in the
+      // triangle when its three values are positive: the sign bit of their OR is clear.
+      const X0 = minX << 8, Y0 = minY << 8;
+      const ax = Xa - X0, ay = Ya - Y0, bx = Xb - X0, by = Yb - Y0;
+      const cx = Xc - X0, cy = Yc - Y0, dx = Xd - X0, dy = Yd - Y0;
+      const g1 = (area1 >> 31) | 1, g2 = (area2 >> 31) | 1; // orientation signs
+      const t1 = g1 << 1, t2 = g2 << 1;
+      // triangle 1: a → b, b → d, d → a; triangle 2: a → d, d → c, c → a
+      const ad = (Math.imul(ax, dy) - Math.imul(ay, dx)) | 0;
+      const A1 = (Math.imul(t1, (Math.imul(ax, by) - Math.imul(ay, bx)) | 0) + ((Math.imul(g1, ((by - ay) << 12) + bx - ax) >> 31) | 1)) | 0;
+      const B1 = (Math.imul(t1, (Math.imul(bx, dy) - Math.imul(by, dx)) | 0) + ((Math.imul(g1, ((dy - by) << 12) + dx - bx) >> 31) | 1)) | 0;
+      const C1 = (Math.imul(-t1, ad) + ((Math.imul(g1, ((ay - dy) << 12) + ax - dx) >> 31) | 1)) | 0;
+      const A2 = (Math.imul(t2, ad) + ((Math.imul(g2, ((dy - ay) << 12) + dx - ax) >> 31) | 1)) | 0;
+      const B2 = (Math.imul(t2, (Math.imul(dx, cy) - Math.imul(dy, cx)) | 0) + ((Math.imul(g2, ((cy - dy) << 12) + cx - dx) >> 31) | 1)) | 0;
+      const C2 = (Math.imul(t2, (Math.imul(cx, ay) - Math.imul(cy, ax)) | 0) + ((Math.imul(g2, ((ay - cy) << 12) + ax - cx) >> 31) | 1)) | 0;
+      // steps per pixel: x adds −2·sg·256·(Qy − Py), y adds 2·sg·256·(Qx − Px)
+      const xa1 = Math.imul(t1, ay - by) << 8, ya1 = Math.imul(t1, bx - ax) << 8;
+      const xb1 = Math.imul(t1, by - dy) << 8, yb1 = Math.imul(t1, dx - bx) << 8;
+      const xc1 = Math.imul(t1, dy - ay) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
+      const xa2 = Math.imul(t2, ay - dy) << 8, ya2 = Math.imul(t2, dx - ax) << 8;
+      const xb2 = Math.imul(t2, dy - cy) << 8, yb2 = Math.imul(t2, cx - dx) << 8;
+      const xc2 = Math.imul(t2, cy - ay) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+      // bit 2·(2·row + column) + (triangle − 1); a degenerate triangle covers nothing
+      const k1 = (area1 | -area1) >> 31, k2 = (area2 | -area2) >> 31;
+      let bits =
+        ((~(A1 | B1 | C1) >>> 31) |
+          ((~((A1 + xa1) | (B1 + xb1) | (C1 + xc1)) >>> 31) << 2) |
+          ((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 4) |
+          ((~((A1 + xa1 + ya1) | (B1 + xb1 + yb1) | (C1 + xc1 + yc1)) >>> 31) << 6)) & k1;
+      bits |=
+        (((~(A2 | B2 | C2) >>> 31) << 1) |
+          ((~((A2 + xa2) | (B2 + xb2) | (C2 + xc2)) >>> 31) << 3) |
+          ((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 5) |
+          ((~((A2 + xa2 + ya2) | (B2 + xb2 + yb2) | (C2 + xc2 + yc2)) >>> 31) << 7)) & k2;
+      while (bits !== 0) {
+        const b = 31 - Math.clz32(bits & -bits);
+        bits &= bits - 1;
+        const px = minX + ((b >> 1) & 1), py = minY + (b >> 2);
+        const p = py * W + px;
+        const PX = px * SNAP, PY = py * SNAP;
+        if ((b & 1) === 0) {
+          if (claim(owner, fold, p, area1 > 0 ? 2 : 1)) {
+            // Weights: b ← eda, d ← eab; source a (u0, v0), b (u0+1, v0), d (u0+1, v0+1).
+            const i1 = 1 / area1;
+            const eab = (Xb - Xa) * (PY - Ya) - (Yb - Ya) * (PX - Xa);
+            const ead = (Xd - Xa) * (PY - Ya) - (Yd - Ya) * (PX - Xa);
+            const wb = -ead * i1, wd = eab * i1;
+            map[2 * p] = u0 + wb + wd;
+            map[2 * p + 1] = v0 + wd;
+          }
+        } else if (claim(owner, fold, p, area2 > 0 ? 2 : 1)) {
+          // Weights: d ← eca, c ← ead; source a (u0, v0), d (u0+1, v0+1), c (u0, v0+1).
+          const i2 = 1 / area2;
+          const ead = (Xd - Xa) * (PY - Ya) - (Yd - Ya) * (PX - Xa);
+          const eca = (Xa - Xc) * (PY - Yc) - (Ya - Yc) * (PX - Xc);
+          const wd = eca * i2, wc = ead * i2;
+          map[2 * p] = u0 + wd;
+          map[2 * p + 1] = v0 + wd + wc;
+        }
+      }
+      continue;
+    }
     if (minX < 0) minX = 0;
     if (minY < 0) minY = 0;
     if (maxX > W - 1) maxX = W - 1;
