@@ -363,24 +363,21 @@ export function traceBatch(
   const { xy, hpq, t: tt, list, hit, res, grad } = scr;
   if (n > scr.n) rangeError('traceBatch', 'n', n, `at most the scratch size ${scr.n}`);
   let m = 0;
+  for (let e = 0; e < n; e++) {
+    const st = rs[k0 + e]!;
+    stat[e] = st === S_OK ? S_NOTCONVERGED : st; // S_NOTCONVERGED: pending
+    tHit[e] = NaN;
+    if (s === null || st !== S_OK) continue;
+    const a = 3 * (k0 + e);
+    const g = guess[e]!;
+    if (g === g && monotone(s, rd[a]!, rd[a + 1]!, rd[a + 2]!)) {
+      list[m] = e;
+      tt[m] = g;
+      m++;
+    }
+  }
   if (s !== null) {
     const b = s.bounds;
-    for (let e = 0; e < n; e++) {
-      const a = 3 * (k0 + e);
-      const g = guess[e]!;
-      stat[e] = S_NOTCONVERGED; // pending
-      tHit[e] = NaN;
-      if (rs[k0 + e] !== S_OK) {
-        stat[e] = rs[k0 + e]!;
-        continue;
-      }
-      const dx = rd[a]!, dy = rd[a + 1]!, dz = rd[a + 2]!;
-      if (g === g && monotone(s, dx, dy, dz)) {
-        list[m] = e;
-        tt[m] = g;
-        m++;
-      }
-    }
     // The warm start, three steps at most (as in hitSurface).
     for (let it = 0; it < 3 && m > 0; it++) {
       for (let l = 0; l < m; l++) {

@@ -20,6 +20,28 @@ describe('traceBatch', () => {
   const pose = createCameraPose([1, 0, 0, 0, 1, 0, 0, 0, 1], [0, 0, -0.5]);
   const scene = { kind: 1, z: 9.5 } as ResolvedScene;
 
+  it('no surface (null): the rays go straight to the scene, whatever the buffers held before', () => {
+    const ctx = traceContext('test', null, pose, scene, { nWater: 1.333, nAir: 1 });
+    const n = 5;
+    const ro = new Float64Array(3 * n), rd = new Float64Array(3 * n), rs = new Uint8Array(n).fill(Status.ok);
+    for (let k = 0; k < n; k++) rd.set([0.1 * k, 0, Math.sqrt(1 - 0.01 * k * k)], 3 * k);
+    rs[2] = Status.outside;
+    // stale contents from an earlier call must not leak into this one
+    const stat = new Uint8Array(n).fill(Status.ok), pts = new Float64Array(3 * n).fill(7), tHit = new Float64Array(n).fill(3);
+    traceBatch(ctx, ro, rd, rs, 0, n, new Float64Array(n).fill(1), stat, pts, tHit, traceBatchScratch(n));
+    for (let k = 0; k < n; k++) {
+      expect(Number.isNaN(tHit[k]!)).toBe(true);
+      if (k === 2) {
+        expect(stat[k]).toBe(Status.outside);
+        continue;
+      }
+      expect(stat[k]).toBe(Status.ok);
+      // straight line from the origin to the plane z = 9.5: x = z·dx/dz
+      expect(pts[3 * k]).toBeCloseTo((9.5 * rd[3 * k]!) / rd[3 * k + 2]!, 12);
+      expect(pts[3 * k + 2]).toBe(9.5);
+    }
+  });
+
   for (const [name, s] of surfaces) {
     it(`${name}: statuses, scene points and hit distances equal traceRay's`, () => {
       const ctx = traceContext('test', s, pose, scene, { nWater: 1.333, nAir: 1 });
