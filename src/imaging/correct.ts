@@ -11,8 +11,8 @@ import type { CameraModel, CameraPose } from '../camera/index.js';
 import { interpolationCode, sampleInto } from './sample.js';
 import type { ImageInterpolation } from './sample.js';
 import type { ResolvedScene } from './scene.js';
-import { checkCamera, checkPoseValue, traceBatch, traceBatchScratch, traceContext, traceRay, worldRays } from './trace.js';
-import type { TraceBatchScratch } from './trace.js';
+import { checkCamera, checkPoseValue, createRowTracer, traceContext, traceRay, worldRays } from './trace.js';
+import type { RowTracer } from './trace.js';
 import type { TraceContext } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import { flatContext, referencePoint, referencePoints } from './flat.js';
@@ -473,35 +473,13 @@ function traceMesh(
   scr: MeshTraceScratch,
 ): number {
   const NV = vstat.length, MR = NV / MC;
-  // the last four rows' hit distances by column, newest first (NaN: none)
-  let t1 = scr.t1, t2 = scr.t2, t3 = scr.t3, t4 = scr.t4;
-  t1.fill(NaN);
-  t2.fill(NaN);
-  t3.fill(NaN);
-  t4.fill(NaN);
-  const { guess, stat, pts, batch } = scr;
+  const { rows, stat, pts } = scr;
+  rows.reset();
   let traced = 0;
   for (let j = 0; j < MR; j++) {
     const k0 = j * MC;
-    // polynomial extrapolation of the distance from as many previous hits as there are
-    // (up to cubic: its error is the distance's fourth difference, far below the
-    // tolerance on a smooth surface, so most rays settle at their first evaluation)
-    for (let i = 0; i < MC; i++) {
-      const a1 = t1[i]!, a2 = t2[i]!, a3 = t3[i]!, a4 = t4[i]!;
-      guess[i] = a4 === a4 ? 4 * a1 - 6 * a2 + 4 * a3 - a4 : a3 === a3 ? 3 * a1 - 3 * a2 + a3 : a2 === a2 ? 2 * a1 - a2 : a1;
-    }
-    // the oldest row's buffer takes this row's hits
-    const tn = t4;
-    t4 = t3;
-    t3 = t2;
-    t2 = t1;
-    t1 = tn;
-    traceBatch(ctx, ro, rd, rs, k0, MC, guess, stat, pts, t1, batch);
-    for (let i = 0; i < MC; i++) {
-      // a hit continues its column's history; a ray that missed the surface breaks it
-      if (!(t1[i]! === t1[i]!)) t2[i] = t3[i] = t4[i] = NaN;
-    }
-    if (tHit !== null) tHit.set(t1, k0);
+    const t = rows.traceRow(ctx, ro, rd, rs, k0, MC, stat, pts);
+    if (tHit !== null) tHit.set(t, k0);
     referencePoints(fl, pts, stat, MC, cpts, k0);
     for (let i = 0; i < MC; i++) {
       const st = stat[i]!;
@@ -519,27 +497,13 @@ function traceMesh(
 
 /** Buffers of {@link traceMesh} for a mesh row, reused frame after frame. */
 interface MeshTraceScratch {
-  t1: Float64Array;
-  t2: Float64Array;
-  t3: Float64Array;
-  t4: Float64Array;
-  guess: Float64Array;
+  rows: RowTracer;
   stat: Uint8Array;
   pts: Float64Array;
-  batch: TraceBatchScratch;
 }
 
 function meshTraceScratch(MC: number): MeshTraceScratch {
-  return {
-    t1: new Float64Array(MC),
-    t2: new Float64Array(MC),
-    t3: new Float64Array(MC),
-    t4: new Float64Array(MC),
-    guess: new Float64Array(MC),
-    stat: new Uint8Array(MC),
-    pts: new Float64Array(3 * MC),
-    batch: traceBatchScratch(MC),
-  };
+  return { rows: createRowTracer(MC), stat: new Uint8Array(MC), pts: new Float64Array(3 * MC) };
 }
 
 /**

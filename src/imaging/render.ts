@@ -13,7 +13,7 @@ import { interpolationCode, sampleInto } from './sample.js';
 import type { ImageEdge, ImageInterpolation } from './sample.js';
 import { resolveScene, sceneToTexture } from './scene.js';
 import type { Scene } from './scene.js';
-import { checkCamera, checkPoseValue, traceContext, traceRay, worldRays } from './trace.js';
+import { checkCamera, checkPoseValue, createRowTracer, traceContext, traceRay, worldRays } from './trace.js';
 import type { MediumOptions } from './trace.js';
 import type { CorrectionTarget } from './correct.js';
 
@@ -111,8 +111,10 @@ export function renderThroughSurface(surface: Surface | null, camera: CameraMode
   const status = new Uint8Array(W * H);
   const n = W * ss * ss;
   const pix = new Float64Array(2 * n);
-  const hit = new Float64Array(6);
-  const res = new Float64Array(6);
+  // the rays of a row, traced together, each from the hits of the rows above it
+  const rows = createRowTracer(n);
+  const rowStat = new Uint8Array(n);
+  const rowPts = new Float64Array(3 * n);
   const uv = new Float64Array(2);
   const val = new Float32Array(C);
   const acc = new Float64Array(C);
@@ -129,20 +131,16 @@ export function renderThroughSurface(surface: Surface | null, camera: CameraMode
       }
     }
     const rays = worldRays(cam, ps, pix);
-    const ro = rays.origins, rd = rays.directions, rs = rays.status;
+    rows.traceRow(ctx, rays.origins, rays.directions, rays.status, 0, n, rowStat, rowPts);
     for (let u = 0; u < W; u++) {
       let first: number = S_OK;
       let good = 0;
       acc.fill(0);
       for (let q = 0; q < ss * ss; q++) {
         const r = u * ss * ss + q;
-        let st: number = rs[r]!;
+        let st: number = rowStat[r]!;
         if (st === S_OK) {
-          const i3 = 3 * r;
-          st = traceRay(ctx, ro[i3]!, ro[i3 + 1]!, ro[i3 + 2]!, rd[i3]!, rd[i3 + 1]!, rd[i3 + 2]!, hit, res);
-        }
-        if (st === S_OK) {
-          if (!sceneToTexture(sc, res[0]!, res[1]!, res[2]!, uv, 0)) st = S_OUTSIDE;
+          if (!sceneToTexture(sc, rowPts[3 * r]!, rowPts[3 * r + 1]!, rowPts[3 * r + 2]!, uv, 0)) st = S_OUTSIDE;
           else if (!clamp && !(uv[0]! >= -0.5 && uv[0]! <= TW - 0.5 && uv[1]! >= -0.5 && uv[1]! <= TH - 0.5)) st = S_OUTSIDE;
         }
         if (st === S_OK) {

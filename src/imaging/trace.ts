@@ -430,6 +430,64 @@ export function traceBatch(
   }
 }
 
+/**
+ * @internal Traces rows of rays that lie one above the other (a camera's pixel rows, a
+ * mesh's rows): each ray starts its surface search from the distance extrapolated from
+ * the hits of up to four previous rows at the same index (up to cubic: its error is the
+ * distance's fourth difference, far below the tolerance on a smooth surface, so most rays
+ * settle at their first evaluation), through {@link traceBatch}. A ray that misses the
+ * surface breaks its column's history. `reset()` forgets all rows (a new frame).
+ */
+export interface RowTracer {
+  /** Largest row length. */
+  readonly n: number;
+  reset(): void;
+  /**
+   * Trace the row of rays `k0 … k0 + n − 1` (`n` ≤ the tracer's size): statuses into
+   * `stat[0 … n−1]`, scene points into `pts`, as {@link traceBatch}. Returns the row's hit
+   * distances (NaN: no hit), valid until the next call.
+   */
+  traceRow(ctx: TraceContext, ro: Float64Array, rd: Float64Array, rs: Uint8Array, k0: number, n: number, stat: Uint8Array, pts: Float64Array): Float64Array;
+}
+
+/** @internal */
+export function createRowTracer(n: number): RowTracer {
+  // the last four rows' hit distances by index, newest first (NaN: none)
+  let t1 = new Float64Array(n).fill(NaN), t2 = new Float64Array(n).fill(NaN);
+  let t3 = new Float64Array(n).fill(NaN), t4 = new Float64Array(n).fill(NaN);
+  const guess = new Float64Array(n);
+  const batch = traceBatchScratch(n);
+  return {
+    n,
+    reset() {
+      t1.fill(NaN);
+      t2.fill(NaN);
+      t3.fill(NaN);
+      t4.fill(NaN);
+    },
+    traceRow(ctx, ro, rd, rs, k0, m, stat, pts) {
+      if (m > n) rangeError('RowTracer.traceRow', 'n', m, `at most the tracer's row length ${n}`);
+      for (let i = 0; i < m; i++) {
+        const a1 = t1[i]!, a2 = t2[i]!, a3 = t3[i]!, a4 = t4[i]!;
+        guess[i] = a4 === a4 ? 4 * a1 - 6 * a2 + 4 * a3 - a4 : a3 === a3 ? 3 * a1 - 3 * a2 + a3 : a2 === a2 ? 2 * a1 - a2 : a1;
+      }
+      // the oldest row's buffer takes this row's hits
+      const tn = t4;
+      t4 = t3;
+      t3 = t2;
+      t2 = t1;
+      t1 = tn;
+      traceBatch(ctx, ro, rd, rs, k0, m, guess, stat, pts, t1, batch);
+      for (let i = 0; i < m; i++) {
+        if (!(t1[i]! === t1[i]!)) t2[i] = t3[i] = t4[i] = NaN;
+      }
+      // indices beyond this row's length have no hit in it
+      if (m < n) t1.fill(NaN, m);
+      return t1;
+    },
+  };
+}
+
 /** @internal World rays of packed pixels for a camera at a pose. */
 export function worldRays(camera: CameraModel, pose: CameraPose, pixels: Float64Array): { origins: Float64Array; directions: Float64Array; status: Uint8Array } {
   const r = camera.unprojectBatch(pixels);
