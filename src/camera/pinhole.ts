@@ -206,7 +206,8 @@ export class PinholeCamera implements CameraModel {
     const n = st.length;
     const OK = S_OK, OUTSIDE = S_OUTSIDE;
     if (!this.distorted) {
-      // The same numbers without the distortion terms (all zero): u = fx·x′ + cx.
+      // The same numbers without the distortion terms (all zero): u = fx·x′ + cx. A loop of
+      // its own: one loop with a per-point branch between the two forms measured slower.
       for (let i = 0, j = 0, k = 0; i < n; i++, j += 2, k += 3) {
         const z = points[k + 2]!;
         const iz = 1 / z;
