@@ -35,8 +35,8 @@ export interface RasterTarget {
   readonly fold: Uint8Array;
   /**
    * One-channel source image to sample bilinearly as each pixel is written (its source
-   * position clamped to the image), with `out` receiving the sample; used by the snapped
-   * rasteriser only. The width and height are the target's.
+   * position clamped to the image), with `out` receiving the sample. The width and
+   * height are the target's.
    */
   readonly sample?: { readonly source: Float32Array; readonly out: Float32Array } | null;
 }
@@ -129,6 +129,8 @@ export function rasterTriangle(
   if (maxY > H - 1) maxY = H - 1;
   if (minX > maxX || minY > maxY) return 0;
   const { map, owner, fold } = t;
+  // the one-channel image sampled as pixels are written (see RasterTarget.sample)
+  const src = t.sample ? t.sample.source : null, od = t.sample ? t.sample.out : null;
   if (maxX - minX <= 1 && maxY - minY <= 1) {
     // A small triangle: test its few pixels directly.
     const inv = 1 / area;
@@ -153,6 +155,7 @@ export function rasterTriangle(
           }
           map[2 * p] = u;
           map[2 * p + 1] = v;
+          if (od !== null) od[p] = bilinear1(src!, W, H, u, v);
         }
         covered++;
       }
@@ -209,8 +212,10 @@ export function rasterTriangle(
         const p = row + px;
         if (claim(owner, fold, p, prio)) {
           const w2 = 1 - w0 - w1, a = w0 * w1, b = w1 * w2, c = w0 * w2;
-          map[2 * p] = u + a * k01u + b * k12u + c * k02u;
-          map[2 * p + 1] = v + a * k01v + b * k12v + c * k02v;
+          const uq = u + a * k01u + b * k12u + c * k02u, vq = v + a * k01v + b * k12v + c * k02v;
+          map[2 * p] = uq;
+          map[2 * p + 1] = vq;
+          if (od !== null) od[p] = bilinear1(src!, W, H, uq, vq);
         }
         u += au;
         v += av;
@@ -223,6 +228,7 @@ export function rasterTriangle(
         if (claim(owner, fold, p, prio)) {
           map[2 * p] = u;
           map[2 * p + 1] = v;
+          if (od !== null) od[p] = bilinear1(src!, W, H, u, v);
         }
         u += au;
         v += av;

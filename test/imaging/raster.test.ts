@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createRng } from '../../src/core/index.js';
-import { rasterTriangleSnapped, rasterUnitCellsSnapped } from '../../src/imaging/raster.js';
+import { bilinear1, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, rasterUnitCellsSnapped, TRI_STRIDE } from '../../src/imaging/raster.js';
 import type { RasterTarget } from '../../src/imaging/raster.js';
 
 // The exact mode's cell rasteriser takes a row of one-pixel cells at once, with a
@@ -60,3 +60,36 @@ describe('rasterUnitCellsSnapped', () => {
     });
   }
 });
+
+describe('rasterTrianglesSnapped with sampling', () => {
+  // A triangle with a vertex beyond the snap lattice's range (|x| ≥ 32768 px) goes to the
+  // floating-point rasteriser; the pixels it writes must be sampled as well, like those
+  // of a snapped triangle (they had kept whatever the output held).
+  it('samples every written pixel, on the snapped path and on the floating-point fallback', () => {
+    const W = 32, H = 24;
+    const src = new Float32Array(W * H);
+    for (let p = 0; p < W * H; p++) src[p] = Math.sin(p * 0.7) + 0.01 * p;
+    const out = new Float32Array(W * H).fill(-99);
+    const t: RasterTarget = { width: W, height: H, map: new Float32Array(2 * W * H), owner: new Uint8Array(W * H), fold: new Uint8Array(W * H), sample: { source: src, out } };
+    const tris = new Float64Array(2 * TRI_STRIDE);
+    // snapped: a triangle over the left part of the image
+    putTriangle(tris, 0, 2, 0, 0, 12, 0, 0, 20, 1, 1, 9, 2, 2, 15, null);
+    // fallback: one vertex far to the right, source positions inside the image
+    putTriangle(tris, 1, 2, 14, 2, 40000, 3, 14, 22, 10, 3, 30, 5, 11, 20, null);
+    rasterTrianglesSnapped(t, tris, 2);
+    let left = 0, right = 0;
+    for (let p = 0; p < W * H; p++) {
+      if (t.owner[p] === 0) {
+        expect(out[p]).toBe(-99);
+        continue;
+      }
+      if (p % W < 13) left++;
+      else right++;
+      // sampled at the written source position (float64 there, float32 in the map)
+      expect(out[p]).toBeCloseTo(bilinear1(src, W, H, t.map[2 * p]!, t.map[2 * p + 1]!), 4);
+    }
+    expect(left).toBeGreaterThan(50);
+    expect(right).toBeGreaterThan(50);
+  });
+});
+
