@@ -25,7 +25,6 @@ import type { RasterTarget } from './raster.js';
 // Status codes as local constants (read once, not through the module namespace in loops).
 const S_OK = Status.ok;
 const S_OUTSIDE = Status.outside;
-const S_TIR = Status.tir;
 
 /**
  * Where the scene lies, for a correction: at infinity (a sky) or on a horizontal plane at
@@ -352,7 +351,6 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     }
     const fl = flatCache.fl;
     const t0 = now();
-    const ro = rays.origins, rd = rays.directions, rs = rays.status;
     const traced = traceMesh(ctx, fl, rays.origins, rays.directions, rays.status, MC, tHit, cpts, vstat, meshScratch);
     cam.projectBatch(cpts, { out: outPix, status: projStat });
     let invalidVertices = 0;
