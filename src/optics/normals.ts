@@ -140,33 +140,43 @@ function normalsKernel(
   const ok = Status.ok;
   const bad = Status.inconsistent;
   for (let r = 0, b = 0; r < count; r++, b += 3) {
-    const ax = incident[b]!;
-    const ay = incident[b + 1]!;
-    const az = incident[b + 2]!;
-    const bx = refracted[b]!;
-    const by = refracted[b + 1]!;
-    const bz = refracted[b + 2]!;
-    const qi = ax * ax + ay * ay + az * az;
-    const qt = bx * bx + by * by + bz * bz;
+    let ax = incident[b]!;
+    let ay = incident[b + 1]!;
+    let az = incident[b + 2]!;
+    let bx = refracted[b]!;
+    let by = refracted[b + 1]!;
+    let bz = refracted[b + 2]!;
+    let qi = ax * ax + ay * ay + az * az;
+    let qt = bx * bx + by * by + bz * bz;
     // both already unit to 1e-8 (the common case): one Newton step from 1 gives 1/√q
     // with an error below 3(q − 1)²/8 ≤ 4e-17, under half an ulp, without a square root
+    const ei = qi - 1;
+    const et = qt - 1;
     let li = 1.5 - 0.5 * qi;
     let lt = 1.5 - 0.5 * qt;
-    if (!(Math.abs(qi - 1) < 1e-8 && Math.abs(qt - 1) < 1e-8)) {
+    if (!(ei * ei + et * et < 1e-16)) {
+      // not unit: scale both to unit length first (the raw squares may have under- or
+      // overflowed), then go on as for unit vectors
       li = invLength(fn, 'incident', incident, r, ax, ay, az);
       lt = invLength(fn, 'refracted', refracted, r, bx, by, bz);
+      ax *= li; ay *= li; az *= li;
+      bx *= lt; by *= lt; bz *= lt;
+      qi = ax * ax + ay * ay + az * az;
+      qt = bx * bx + by * by + bz * bz;
+      li = 1;
+      lt = 1;
     }
-    const ix = ax * li;
-    const iy = ay * li;
-    const iz = az * li;
-    const tx = bx * lt;
-    const ty = by * lt;
-    const tz = bz * lt;
-    const mx = n1 * ix - n2 * tx;
-    const my = n1 * iy - n2 * ty;
-    const mz = n1 * iz - n2 * tz;
-    const im = ix * mx + iy * my + iz * mz;
-    const tm = tx * mx + ty * my + tz * mz;
+    // m = n1 î − n2 t̂ with î = li·a, t̂ = lt·b; the signs of î·m and t̂·m are those of
+    // a·m and b·m (li, lt > 0), taken from the raw dot products so that neither the unit
+    // vectors nor m have to be formed first
+    const g1 = n1 * li;
+    const g2 = n2 * lt;
+    const ab = ax * bx + ay * by + az * bz;
+    const mx = g1 * ax - g2 * bx;
+    const my = g1 * ay - g2 * by;
+    const mz = g1 * az - g2 * bz;
+    const im = g1 * qi - g2 * ab;
+    const tm = g1 * ab - g2 * qt;
     if (im * tm > 0) {
       const s = (im > 0 ? -1 : 1) / Math.sqrt(mx * mx + my * my + mz * mz);
       out[b] = mx * s;

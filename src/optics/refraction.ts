@@ -160,14 +160,15 @@ function refractKernel(
   const ok = Status.ok;
   const tir = Status.tir;
   for (let r = 0, b = 0, c3 = 0; r < count; r++, b += 3, c3 += ns) {
-    const ax = incident[b]!;
-    const ay = incident[b + 1]!;
-    const az = incident[b + 2]!;
-    const bx = normals[c3]!;
-    const by = normals[c3 + 1]!;
-    const bz = normals[c3 + 2]!;
+    let ax = incident[b]!;
+    let ay = incident[b + 1]!;
+    let az = incident[b + 2]!;
+    let bx = normals[c3]!;
+    let by = normals[c3 + 1]!;
+    let bz = normals[c3 + 2]!;
     const qi = ax * ax + ay * ay + az * az;
     const qn = bx * bx + by * by + bz * bz;
+    let ab = bx * ax + by * ay + bz * az;
     // both already unit to 1e-8 (the common case): one Newton step from 1 gives 1/√q
     // with an error below 3(q − 1)²/8 ≤ 4e-17, under half an ulp, without a square root
     const ei = qi - 1;
@@ -175,30 +176,37 @@ function refractKernel(
     let li = 1.5 - 0.5 * qi;
     let ln = 1.5 - 0.5 * qn;
     if (!(ei * ei + en * en < 1e-16)) {
+      // not unit: scale both to unit length first (the raw squares and dot product may
+      // have under- or overflowed), then go on as for unit vectors
       li = invLength(fn, 'incident', incident, r, ax, ay, az);
       ln = invLength(fn, 'normals', normals, ns === 0 ? 0 : r, bx, by, bz);
+      ax *= li; ay *= li; az *= li;
+      bx *= ln; by *= ln; bz *= ln;
+      ab = bx * ax + by * ay + bz * az;
+      li = 1;
+      ln = 1;
     }
-    const ix = ax * li;
-    const iy = ay * li;
-    const iz = az * li;
-    // c = n̂·î; the normal is turned to face the ray by the sign folded into sg
-    const c0 = (bx * ix + by * iy + bz * iz) * ln;
+    // c = n̂·î from the raw dot product (the unit vectors themselves are never formed,
+    // which keeps the dependency chain to the square root short); the normal is turned to
+    // face the ray by the sign folded into sg
+    const c0 = ab * (li * ln);
     const c = c0 > 0 ? -c0 : c0;
     const sg = c0 > 0 ? -ln : ln;
     const k = 1 - eta2 * (1 - c * c);
-    // refracted: t = η î + (−η c − √k) n̂; reflected (TIR): r = î − 2c n̂
-    let e = eta;
+    // refracted: t = η î + (−η c − √k) n̂; reflected (TIR): r = î − 2c n̂; with
+    // î = li·a and n̂ = ln·b, the factors li and ln go into e and s
+    let e = eta * li;
     let s: number;
     let st: number = ok;
     if (k >= 0) s = (-eta * c - Math.sqrt(k)) * sg;
     else {
       s = -2 * c * sg;
-      e = 1;
+      e = li;
       st = tir;
     }
-    out[b] = e * ix + s * bx;
-    out[b + 1] = e * iy + s * by;
-    out[b + 2] = e * iz + s * bz;
+    out[b] = e * ax + s * bx;
+    out[b + 1] = e * ay + s * by;
+    out[b + 2] = e * az + s * bz;
     status[r] = st;
   }
 }

@@ -123,6 +123,19 @@ describe('normalFromRaysBatch', () => {
     );
   });
 
+  it('handles very small and very large vectors without under- or overflow', () => {
+    // the same pair of directions at lengths whose squares under- and overflow
+    const t = refract([0.3, 0, -1], [0, 0, 1], 1, 1.333)!;
+    const inc = new Float64Array([3e-201, 0, -1e-200, 3e199, 0, -1e200]);
+    const ref = new Float64Array([t[0] * 1e-250, t[1] * 1e-250, t[2] * 1e-250, t[0] * 1e250, t[1] * 1e250, t[2] * 1e250]);
+    const { normals, status } = normalFromRaysBatch(inc, ref, 1, 1.333);
+    const want = normalFromRays([0.3, 0, -1], t, 1, 1.333)!;
+    for (let r = 0; r < 2; r++) {
+      expect(status[r]).toBe(Status.ok);
+      for (let k = 0; k < 3; k++) expect(normals[3 * r + k]).toBeCloseTo(want[k]!, 14);
+    }
+  });
+
   it('bad input: mismatched lengths, bad vectors, equal indices, wrong buffers', () => {
     const a = new Float64Array([0, 0, -1, 0.1, 0, -1]);
     const b = new Float64Array([0, 0, -1, 0.08, 0, -1]);
