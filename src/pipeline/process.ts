@@ -143,10 +143,23 @@ export interface PreparedPipeline {
    *
    * @param sensorFrame - The slope sensor's camera frame.
    * @param sceneImage - The scene camera's image (the scene camera's size).
+   * @param options - Per-frame options (buffer reuse for video).
    * @returns Surface, corrected image and diagnostics.
-   * @throws {@link core!MeniscusTypeError} for malformed frames or a scene image whose size differs from the scene camera's calibration.
+   * @throws {@link core!MeniscusTypeError} for malformed frames, a scene image whose size differs from the scene camera's calibration, or an `options.reuse` that is not a result of this pipeline.
    */
-  process(sensorFrame: Image, sceneImage: Image): PipelineResult;
+  process(sensorFrame: Image, sceneImage: Image, options?: ProcessFrameOptions): PipelineResult;
+}
+
+/** Per-frame options of {@link PreparedPipeline.process}. */
+export interface ProcessFrameOptions {
+  /**
+   * A previous result of the same prepared pipeline whose correction buffers (corrected
+   * image, mask, map and fold mask) are overwritten with this frame's, for video: fresh
+   * multi-megabyte buffers every frame cost the garbage collector more than the work on
+   * them. The old result's correction must not be used afterwards; the new result shares
+   * its buffers. A result without a correction reuses nothing.
+   */
+  reuse?: PipelineResult;
 }
 
 const now = (): number => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -222,12 +235,22 @@ export function preparePipeline(setup: PipelineSetup, options?: PipelineOptions)
   const subdivision = so.subdivision === undefined ? 2 : checkInteger(fn, 'options.surface.subdivision', so.subdivision, 1, 4);
   const smoothness = so.smoothness === undefined ? 0.03 : checkPositive(fn, 'options.surface.smoothness', so.smoothness);
   const tolerance = so.tolerance === undefined ? 1e-6 : checkPositive(fn, 'options.surface.tolerance', so.tolerance);
-  const process = (sensorFrame: Image, sceneImage: Image): PipelineResult => {
+  const process = (sensorFrame: Image, sceneImage: Image, frameOptions?: ProcessFrameOptions): PipelineResult => {
     const pfn = 'PreparedPipeline.process';
     checkImage(pfn, 'sensorFrame', sensorFrame, true);
     const img = checkImage(pfn, 'sceneImage', sceneImage, true);
     if (img.width !== prepared.width || img.height !== prepared.height) {
       typeError(pfn, 'sceneImage', `${img.width}×${img.height}`, `an image of the scene camera's calibrated size ${prepared.width}×${prepared.height}`);
+    }
+    const fo = checkOptions(pfn, frameOptions);
+    let reuse: CorrectionResult | undefined;
+    if (fo.reuse !== undefined) {
+      const r = fo.reuse as Partial<PipelineResult> | null;
+      if (r === null || typeof r !== 'object' || !('correction' in r) || r.diagnostics === undefined) {
+        typeError(pfn, 'options.reuse', r, 'a PipelineResult returned by this prepared pipeline');
+      }
+      // the correction checks that the buffers are of its size
+      reuse = r.correction ?? undefined;
     }
     const t0 = now();
     const m = measureFrame(sensorFrame, sensor, measureOptions);
@@ -243,7 +266,7 @@ export function preparePipeline(setup: PipelineSetup, options?: PipelineOptions)
     }
     const t2 = now();
     if (surface !== null) {
-      correction = prepared.correct(img, surface);
+      correction = prepared.correct(img, surface, reuse === undefined ? undefined : { reuse });
       warnings.push(...correction.warnings);
     } else warnings.push('no surface was measured, so the scene image was not corrected');
     const t3 = now();

@@ -6,7 +6,7 @@ import { createGridSurface } from '../../src/surface/index.js';
 import type { Surface } from '../../src/surface/index.js';
 import { detectCheckerboardCorners, lineStraightness, psnr, squareSizeSpread, ssim } from '../../src/metrics/index.js';
 import { harbourScenario, preparePipeline, processFrame, simulateScenario, tankScenario, validateScenario } from '../../src/pipeline/index.js';
-import type { Scenario } from '../../src/pipeline/index.js';
+import type { PipelineResult, Scenario } from '../../src/pipeline/index.js';
 
 const json = (name: string): unknown => JSON.parse(readFileSync(new URL(`../../examples/scenarios/${name}.json`, import.meta.url), 'utf8'));
 
@@ -133,6 +133,25 @@ describe('processFrame on the simulated tank', () => {
     expect(after.count).toBe(225); // all 15 × 15 inner corners
     expect(after.spread).toBeLessThan(0.2 * before.spread);
     expect(after.curvature).toBeLessThan(0.2 * before.curvature);
+  });
+
+  it('reuses a previous result\'s correction buffers and gives the same frame', () => {
+    const pipe = preparePipeline(sim.setup, sim.options);
+    const first = pipe.process(sim.sensorFrame, sim.sceneImage);
+    const fresh = pipe.process(sim.sensorFrame, sim.sceneImage);
+    const kept = { image: first.correction!.image.data, map: first.correction!.map, mask: first.correction!.mask };
+    const again = pipe.process(sim.sensorFrame, sim.sceneImage, { reuse: first });
+    const c = again.correction!;
+    expect(c.image.data).toBe(kept.image); // the same buffers …
+    expect(c.map).toBe(kept.map);
+    expect(c.mask).toBe(kept.mask);
+    expect(Array.from(c.image.data)).toEqual(Array.from(fresh.correction!.image.data)); // … holding this frame
+    expect(Array.from(c.mask)).toEqual(Array.from(fresh.correction!.mask));
+    expect(c.valid).toBe(fresh.correction!.valid);
+    expect(() => pipe.process(sim.sensorFrame, sim.sceneImage, { reuse: {} as PipelineResult })).toThrow(/options\.reuse/);
+    // a result without a correction reuses nothing
+    const empty = pipe.process(createImage(sim.sensorFrame.width, sim.sensorFrame.height), sim.sceneImage);
+    expect(pipe.process(sim.sensorFrame, sim.sceneImage, { reuse: empty }).correction!.valid).toBe(fresh.correction!.valid);
   });
 
   it('refuses a scene image of the wrong size, and survives an empty sensor frame', () => {
