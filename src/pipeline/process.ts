@@ -64,7 +64,12 @@ export interface SurfaceBuildOptions {
   subdivision?: number;
   /** Thin-plate smoothness of the finer integration (see `integrateScattered`). @defaultValue 0.03 */
   smoothness?: number;
-  /** Relative residual at which the finer integration's solver stops. @defaultValue 1e-6 */
+  /**
+   * Relative residual at which the finer integration's solver stops. On the tank scenario
+   * at 1024² the default's slopes differ from the fully converged solution's by 3e-6 RMS,
+   * 0.2 % of their 1.7e-3 RMS error against the true surface, in 28 iterations (42 at 1e-6).
+   * @defaultValue 1e-5
+   */
   tolerance?: number;
 }
 
@@ -234,7 +239,7 @@ export function preparePipeline(setup: PipelineSetup, options?: PipelineOptions)
   const so = checkOptions(fn, o.surface, 'options.surface');
   const subdivision = so.subdivision === undefined ? 2 : checkInteger(fn, 'options.surface.subdivision', so.subdivision, 1, 4);
   const smoothness = so.smoothness === undefined ? 0.03 : checkPositive(fn, 'options.surface.smoothness', so.smoothness);
-  const tolerance = so.tolerance === undefined ? 1e-6 : checkPositive(fn, 'options.surface.tolerance', so.tolerance);
+  const tolerance = so.tolerance === undefined ? 1e-5 : checkPositive(fn, 'options.surface.tolerance', so.tolerance);
   const process = (sensorFrame: Image, sceneImage: Image, frameOptions?: ProcessFrameOptions): PipelineResult => {
     const pfn = 'PreparedPipeline.process';
     checkImage(pfn, 'sensorFrame', sensorFrame, true);
