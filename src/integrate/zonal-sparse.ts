@@ -125,6 +125,20 @@ export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Arra
 }
 
 /**
+ * An incomplete Cholesky factor `L` in the box layout of its matrix (lower offsets and
+ * diagonal), with the reciprocals of its diagonal and, for radius 2, its lower part
+ * transposed (row `k` holds the entries of column `k` below the diagonal, in the order of
+ * the offsets `o < 12`: the entry of row `k − off[o]`).
+ *
+ * @internal
+ */
+export interface CholeskyFactor {
+  readonly L: Float64Array;
+  readonly rdiag: Float64Array;
+  readonly lt: Float64Array | null;
+}
+
+/**
  * Diagonal shifts `α` tried in turn by `incompleteCholesky`: the factor is of
  * `A + α·diag(A)`. The last is large enough for the thin-plate and gradient stencils to be
  * diagonally dominant (an H-matrix, whose incomplete factor exists).
@@ -132,7 +146,7 @@ export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Arra
 const IC_SHIFTS = [0, 1e-3, 1e-2, 0.05, 0.2, 1, 4];
 
 /**
- * Incomplete Cholesky factor `L` (lower offsets and diagonal of the box pattern) with
+ * Incomplete Cholesky factor `L` (a {@link CholeskyFactor}: lower offsets and diagonal of the box pattern) with
  * `A + α·diag(A) ≈ L Lᵀ`, for the smallest shift `α` in `IC_SHIFTS` at which the
  * factorisation does not break down. Rows with a zero diagonal (unused nodes) get
  * `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each singular piece,
@@ -154,20 +168,41 @@ const IC_SHIFTS = [0, 1e-3, 1e-2, 0.05, 0.2, 1, 4];
  *   shift that restores the factor's existence).
  * @internal
  */
-export function incompleteCholesky(A: StencilMatrix): Float64Array {
+export function incompleteCholesky(A: StencilMatrix): CholeskyFactor {
   const L = new Float64Array(A.coef.length);
   const pairs = icPairs(A);
+  let ok = false;
   for (const shift of IC_SHIFTS) {
-    if (icFactor(A, pairs, 1 + shift, L)) return L;
+    if (icFactor(A, pairs, 1 + shift, L)) {
+      ok = true;
+      break;
+    }
     L.fill(0);
   }
   const { size, center, coef } = A;
   const n = A.width * A.height;
-  for (let k = 0; k < n; k++) {
-    const akk = coef[k * size + center]!;
-    L[k * size + center] = akk > 0 ? Math.sqrt(akk) : 1;
+  if (!ok) {
+    for (let k = 0; k < n; k++) {
+      const akk = coef[k * size + center]!;
+      L[k * size + center] = akk > 0 ? Math.sqrt(akk) : 1;
+    }
   }
-  return L;
+  const rdiag = new Float64Array(n);
+  for (let k = 0; k < n; k++) rdiag[k] = 1 / L[k * size + center]!;
+  // Radius 2: the factor's columns as rows (lt[12k + o] = L[k − off[o]][o], the entry that
+  // row k − off[o] > k has for column k), so the backward sweep reads them in order.
+  let lt: Float64Array | null = null;
+  if (A.radius === 2) {
+    lt = new Float64Array(12 * n);
+    const { off } = A;
+    for (let k = 0; k < n; k++) {
+      for (let o = 0; o < 12; o++) {
+        const m = k - off[o]!;
+        if (m < n) lt[12 * k + o] = L[m * 25 + o]!;
+      }
+    }
+  }
+  return { L, rdiag, lt };
 }
 
 /**
@@ -244,45 +279,70 @@ function icFactor(A: StencilMatrix, pairs: readonly number[][], diagScale: numbe
  */
 function stencilRow5(coef: Float64Array, v: Float64Array, out: Float64Array, w: number, j: number): void {
   const w2 = 2 * w;
-  for (let k = j * w, end = k + w; k < end; k++) {
-    const b = k * 25;
-    let t = k - w2;
-    let s = coef[b]! * v[t - 2]! + coef[b + 1]! * v[t - 1]! + coef[b + 2]! * v[t]! + coef[b + 3]! * v[t + 1]! + coef[b + 4]! * v[t + 2]!;
-    t += w;
-    s += coef[b + 5]! * v[t - 2]! + coef[b + 6]! * v[t - 1]! + coef[b + 7]! * v[t]! + coef[b + 8]! * v[t + 1]! + coef[b + 9]! * v[t + 2]!;
-    t += w;
-    s += coef[b + 10]! * v[t - 2]! + coef[b + 11]! * v[t - 1]! + coef[b + 12]! * v[t]! + coef[b + 13]! * v[t + 1]! + coef[b + 14]! * v[t + 2]!;
-    t += w;
-    s += coef[b + 15]! * v[t - 2]! + coef[b + 16]! * v[t - 1]! + coef[b + 17]! * v[t]! + coef[b + 18]! * v[t + 1]! + coef[b + 19]! * v[t + 2]!;
-    t += w;
-    s += coef[b + 20]! * v[t - 2]! + coef[b + 21]! * v[t - 1]! + coef[b + 22]! * v[t]! + coef[b + 23]! * v[t + 1]! + coef[b + 24]! * v[t + 2]!;
-    out[k] = s;
+  let k = j * w;
+  const end = k + w;
+  // the 5 × 5 window of v, slid one column a node: five loads a node instead of 25
+  let a0 = v[k - w2 - 2]!, a1 = v[k - w2 - 1]!, a2 = v[k - w2]!, a3 = v[k - w2 + 1]!;
+  let b0 = v[k - w - 2]!, b1 = v[k - w - 1]!, b2 = v[k - w]!, b3 = v[k - w + 1]!;
+  let c0 = v[k - 2]!, c1 = v[k - 1]!, c2 = v[k]!, c3 = v[k + 1]!;
+  let d0 = v[k + w - 2]!, d1 = v[k + w - 1]!, d2 = v[k + w]!, d3 = v[k + w + 1]!;
+  let e0 = v[k + w2 - 2]!, e1 = v[k + w2 - 1]!, e2 = v[k + w2]!, e3 = v[k + w2 + 1]!;
+  for (; k < end; k++) {
+    const b = k * 25, q = k + 2;
+    const a4 = v[q - w2]!, b4 = v[q - w]!, c4 = v[q]!, d4 = v[q + w]!, e4 = v[q + w2]!;
+    out[k] =
+      coef[b]! * a0 + coef[b + 1]! * a1 + coef[b + 2]! * a2 + coef[b + 3]! * a3 + coef[b + 4]! * a4 +
+      (coef[b + 5]! * b0 + coef[b + 6]! * b1 + coef[b + 7]! * b2 + coef[b + 8]! * b3 + coef[b + 9]! * b4) +
+      (coef[b + 10]! * c0 + coef[b + 11]! * c1 + coef[b + 12]! * c2 + coef[b + 13]! * c3 + coef[b + 14]! * c4) +
+      (coef[b + 15]! * d0 + coef[b + 16]! * d1 + coef[b + 17]! * d2 + coef[b + 18]! * d3 + coef[b + 19]! * d4) +
+      (coef[b + 20]! * e0 + coef[b + 21]! * e1 + coef[b + 22]! * e2 + coef[b + 23]! * e3 + coef[b + 24]! * e4);
+    a0 = a1; a1 = a2; a2 = a3; a3 = a4;
+    b0 = b1; b1 = b2; b2 = b3; b3 = b4;
+    c0 = c1; c1 = c2; c2 = c3; c3 = c4;
+    d0 = d1; d1 = d2; d2 = d3; d3 = d4;
+    e0 = e1; e1 = e2; e2 = e3; e3 = e4;
   }
 }
 
-/** `z = (L Lᵀ)⁻¹ r`. Interior rows skip the bounds checks. @internal */
-export function applyCholesky(A: StencilMatrix, L: Float64Array, r: Float64Array, z: Float64Array): void {
+/**
+ * `z = (L Lᵀ)⁻¹ r`: the forward sweep `L y = r`, then the backward sweep `Lᵀ z = y`, both
+ * row by row (each entry gathered from entries already final, in place), multiplying by
+ * the diagonal's reciprocals. For radius 2, rows 3 or more from the top and bottom are
+ * unrolled (the factor's entries for neighbours outside the grid are zero, so wrapped
+ * neighbours need no bounds tests; `r` must be finite), with the term of the neighbour
+ * just before (after) last, which keeps the sweep's dependency chain to one product. @internal
+ */
+export function applyCholesky(A: StencilMatrix, F: CholeskyFactor, r: Float64Array, z: Float64Array): void {
   const { width, height, size, center, di, dj, off, radius } = A;
-  // Radius 2, rows 3 or more from the top and bottom: unrolled, as in stencilRow5 (the factor's
-  // entries for neighbours outside the grid are zero).
-  const fast = radius === 2 && width >= 5;
+  const { L, rdiag: rd, lt } = F;
+  const fast = radius === 2 && width >= 5 && lt !== null;
   const w = width, w2 = 2 * width;
   // forward: L y = r (y stored in z)
   for (let j = 0; j < height; j++) {
-    const inner = j >= radius && j < height - radius;
     if (fast && j > 2 && j < height - 3) {
-      for (let k = j * w, end = k + w; k < end; k++) {
-        const b = k * 25;
-        const t = k - w2, u = k - w;
+      // the final entries of the two rows above and the two just before, slid along the row
+      let k = j * w;
+      const end = k + w;
+      let a0 = z[k - w2 - 2]!, a1 = z[k - w2 - 1]!, a2 = z[k - w2]!, a3 = z[k - w2 + 1]!;
+      let b0 = z[k - w - 2]!, b1 = z[k - w - 1]!, b2 = z[k - w]!, b3 = z[k - w + 1]!;
+      let c0 = z[k - 2]!, c1 = z[k - 1]!;
+      for (; k < end; k++) {
+        const b = k * 25, q = k + 2;
+        const a4 = z[q - w2]!, b4 = z[q - w]!;
         const s =
           r[k]! -
-          (L[b]! * z[t - 2]! + L[b + 1]! * z[t - 1]! + L[b + 2]! * z[t]! + L[b + 3]! * z[t + 1]! + L[b + 4]! * z[t + 2]!) -
-          (L[b + 5]! * z[u - 2]! + L[b + 6]! * z[u - 1]! + L[b + 7]! * z[u]! + L[b + 8]! * z[u + 1]! + L[b + 9]! * z[u + 2]!) -
-          (L[b + 10]! * z[k - 2]! + L[b + 11]! * z[k - 1]!);
-        z[k] = s / L[b + 12]!;
+          (L[b]! * a0 + L[b + 1]! * a1 + L[b + 2]! * a2 + L[b + 3]! * a3 + L[b + 4]! * a4) -
+          (L[b + 5]! * b0 + L[b + 6]! * b1 + L[b + 7]! * b2 + L[b + 8]! * b3 + L[b + 9]! * b4) -
+          L[b + 10]! * c0;
+        const zk = (s - L[b + 11]! * c1) * rd[k]!;
+        z[k] = zk;
+        a0 = a1; a1 = a2; a2 = a3; a3 = a4;
+        b0 = b1; b1 = b2; b2 = b3; b3 = b4;
+        c0 = c1; c1 = zk;
       }
       continue;
     }
+    const inner = j >= radius && j < height - radius;
     for (let i = 0; i < width; i++) {
       const k = j * width + i;
       const base = k * size;
@@ -299,50 +359,47 @@ export function applyCholesky(A: StencilMatrix, L: Float64Array, r: Float64Array
           s -= l * z[k + off[o]!]!;
         }
       }
-      z[k] = s / L[base + center]!;
+      z[k] = s * rd[k]!;
     }
   }
-  // backward: Lᵀ x = y, column-oriented, in place
+  // backward: Lᵀ x = y, x_k = (y_k − Σ_m L_mk x_m) / L_kk over the later rows m = k − off[o]
+  // that couple to k, in place
   for (let j = height - 1; j >= 0; j--) {
-    const inner = j >= radius && j < height - radius;
     if (fast && j > 2 && j < height - 3) {
-      for (let k = j * w + w - 1, end = j * w; k >= end; k--) {
-        const b = k * 25;
-        const xk = z[k]! / L[b + 12]!;
+      // the final entries of the two rows below and the two just after, slid along the row
+      let k = j * w + w - 1;
+      const end = j * w;
+      let a0 = z[k + w2 + 2]!, a1 = z[k + w2 + 1]!, a2 = z[k + w2]!, a3 = z[k + w2 - 1]!;
+      let b0 = z[k + w + 2]!, b1 = z[k + w + 1]!, b2 = z[k + w]!, b3 = z[k + w - 1]!;
+      let c0 = z[k + 2]!, c1 = z[k + 1]!;
+      for (; k >= end; k--) {
+        const c = 12 * k, q = k - 2;
+        const a4 = z[q + w2]!, b4 = z[q + w]!;
+        const s =
+          z[k]! -
+          (lt[c]! * a0 + lt[c + 1]! * a1 + lt[c + 2]! * a2 + lt[c + 3]! * a3 + lt[c + 4]! * a4) -
+          (lt[c + 5]! * b0 + lt[c + 6]! * b1 + lt[c + 7]! * b2 + lt[c + 8]! * b3 + lt[c + 9]! * b4) -
+          lt[c + 10]! * c0;
+        const xk = (s - lt[c + 11]! * c1) * rd[k]!;
         z[k] = xk;
-        const t = k - w2, u = k - w;
-        z[t - 2]! -= L[b]! * xk;
-        z[t - 1]! -= L[b + 1]! * xk;
-        z[t]! -= L[b + 2]! * xk;
-        z[t + 1]! -= L[b + 3]! * xk;
-        z[t + 2]! -= L[b + 4]! * xk;
-        z[u - 2]! -= L[b + 5]! * xk;
-        z[u - 1]! -= L[b + 6]! * xk;
-        z[u]! -= L[b + 7]! * xk;
-        z[u + 1]! -= L[b + 8]! * xk;
-        z[u + 2]! -= L[b + 9]! * xk;
-        z[k - 2]! -= L[b + 10]! * xk;
-        z[k - 1]! -= L[b + 11]! * xk;
+        a0 = a1; a1 = a2; a2 = a3; a3 = a4;
+        b0 = b1; b1 = b2; b2 = b3; b3 = b4;
+        c0 = c1; c1 = xk;
       }
       continue;
     }
     for (let i = width - 1; i >= 0; i--) {
       const k = j * width + i;
-      const base = k * size;
-      const xk = z[k]! / L[base + center]!;
-      z[k] = xk;
-      if (inner && i >= radius && i < width - radius) {
-        for (let o = 0; o < center; o++) z[k + off[o]!]! -= L[base + o]! * xk;
-      } else {
-        for (let o = 0; o < center; o++) {
-          const l = L[base + o]!;
-          if (l === 0) continue;
-          const ii = i + di[o]!;
-          const jj = j + dj[o]!;
-          if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
-          z[k + off[o]!]! -= l * xk;
-        }
+      let s = z[k]!;
+      for (let o = 0; o < center; o++) {
+        const ii = i - di[o]!;
+        const jj = j - dj[o]!;
+        if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+        const m = k - off[o]!;
+        const l = L[m * size + o]!;
+        if (l !== 0) s -= l * z[m]!;
       }
+      z[k] = s * rd[k]!;
     }
   }
 }
@@ -450,14 +507,14 @@ export function solveStencil(
   // b is orthogonal to the null space in exact arithmetic; remove rounding residue
   const bb = b.slice();
   removeLabelMeans(bb, labels, count, sums, counts);
-  const L = incompleteCholesky(A);
+  const F = incompleteCholesky(A);
   const x = initial === undefined ? new Float64Array(n) : initial.slice();
   const result = pcg(
     (v, out) => applyStencil(A, v, out),
     bb,
     x,
     (r, z) => {
-      applyCholesky(A, L, r, z);
+      applyCholesky(A, F, r, z);
       removeLabelMeans(z, labels, count, sums, counts);
     },
     opts,
