@@ -87,35 +87,54 @@ export interface ScatteredResult extends IntegrationResult {
  * equation a difference, written straight into the coefficients.
  */
 function addThinPlate(coef: Float64Array, width: number, height: number, off0: number, ws: number, dx: number, dy: number): void {
-  // Coefficient slot of offset (di, dj) in a row: (dj + 2)·5 + (di + 2).
-  const at = (di: number, dj: number): number => (dj + 2) * 5 + di + 2;
+  // Gathered a row at a time: row k takes w·c_k·c_m at offset m − k from every difference
+  // that holds node k. Slot of offset (di, dj): 12 + 5·dj + di.
   const cxx = ws / (dx * dx), cyy = ws / (dy * dy), cxy = (2 * ws) / (dx * dy);
-  const sx = [1, -2, 1];
+  // rows two or more nodes from every edge: all differences exist, the stencil is constant
+  const d0 = 6 * cxx + 6 * cyy + 4 * cxy;
+  const dx1 = -4 * cxx - 2 * cxy, dy1 = -4 * cyy - 2 * cxy;
   for (let j = 0; j < height; j++) {
     for (let i = 0; i < width; i++) {
-      const k = off0 + j * width + i;
-      if (i > 0 && i + 1 < width) {
-        // nodes k − 1, k, k + 1 with coefficients (1, −2, 1)/dx
-        for (let a = 0; a < 3; a++) {
-          const row = (k - 1 + a) * 25;
-          for (let b = 0; b < 3; b++) coef[row + at(b - a, 0)]! += cxx * sx[a]! * sx[b]!;
-        }
+      const row = (off0 + j * width + i) * 25;
+      if (i >= 2 && i <= width - 3 && j >= 2 && j <= height - 3) {
+        coef[row + 12]! += d0;
+        coef[row + 11]! += dx1;
+        coef[row + 13]! += dx1;
+        coef[row + 10]! += cxx;
+        coef[row + 14]! += cxx;
+        coef[row + 7]! += dy1;
+        coef[row + 17]! += dy1;
+        coef[row + 2]! += cyy;
+        coef[row + 22]! += cyy;
+        coef[row + 6]! += cxy;
+        coef[row + 8]! += cxy;
+        coef[row + 16]! += cxy;
+        coef[row + 18]! += cxy;
+        continue;
       }
-      if (j > 0 && j + 1 < height) {
-        for (let a = 0; a < 3; a++) {
-          const row = (k + (a - 1) * width) * 25;
-          for (let b = 0; b < 3; b++) coef[row + at(0, b - a)]! += cyy * sx[a]! * sx[b]!;
-        }
+      // (dx·h_xx)²: the differences centred at c = i − 1, i, i + 1, nodes c − 1, c, c + 1
+      // with coefficients (1, −2, 1)
+      for (let c = i - 1; c <= i + 1; c++) {
+        if (c < 1 || c > width - 2) continue;
+        const wk = cxx * (c === i ? -2 : 1);
+        for (let m = c - 1; m <= c + 1; m++) coef[row + 12 + m - i]! += wk * (m === c ? -2 : 1);
       }
-      if (i + 1 < width && j + 1 < height) {
-        // nodes k, k + 1, k + width, k + width + 1 with coefficients (1, −1, −1, 1)/√(dx dy)
-        for (let a = 0; a < 4; a++) {
-          const ai = a & 1, aj = a >> 1;
-          const row = (k + aj * width + ai) * 25;
-          const ca = ai === aj ? 1 : -1;
-          for (let b = 0; b < 4; b++) {
-            const bi = b & 1, bj = b >> 1;
-            coef[row + at(bi - ai, bj - aj)]! += cxy * ca * (bi === bj ? 1 : -1);
+      // (dy·h_yy)², likewise down the columns
+      for (let c = j - 1; c <= j + 1; c++) {
+        if (c < 1 || c > height - 2) continue;
+        const wk = cyy * (c === j ? -2 : 1);
+        for (let m = c - 1; m <= c + 1; m++) coef[row + 12 + 5 * (m - j)]! += wk * (m === c ? -2 : 1);
+      }
+      // 2(√(dx dy)·h_xy)²: the cells with corner k, nodes (ci + a, cj + b) with coefficients
+      // +1 where a = b, −1 otherwise
+      for (let cj = j - 1; cj <= j; cj++) {
+        if (cj < 0 || cj > height - 2) continue;
+        for (let ci = i - 1; ci <= i; ci++) {
+          if (ci < 0 || ci > width - 2) continue;
+          const ai = i - ci, aj = j - cj;
+          const wk = ai === aj ? cxy : -cxy;
+          for (let bj = 0; bj < 2; bj++) {
+            for (let bi = 0; bi < 2; bi++) coef[row + 12 + 5 * (bj - aj) + bi - ai]! += bi === bj ? wk : -wk;
           }
         }
       }
