@@ -316,25 +316,38 @@ const BSPLINE_BASIS: readonly (readonly number[])[] = [
  */
 function powerCoefficients(P: Float64Array, W: number, H: number, M: readonly (readonly number[])[]): Float64Array {
   const PW = W + 2;
-  const C = new Float64Array(16 * (W - 1) * (H - 1));
-  const T = new Float64Array(16); // T[m][l] = Σ_k M[k][m] P[l][k]
+  const NC = W - 1;
+  const C = new Float64Array(16 * NC * (H - 1));
+  // the basis as numbers: M[k][m] = b[4k + m]
+  const m00 = M[0]![0]!, m01 = M[0]![1]!, m02 = M[0]![2]!, m03 = M[0]![3]!;
+  const m10 = M[1]![0]!, m11 = M[1]![1]!, m12 = M[1]![2]!, m13 = M[1]![3]!;
+  const m20 = M[2]![0]!, m21 = M[2]![1]!, m22 = M[2]![2]!, m23 = M[2]![3]!;
+  const m30 = M[3]![0]!, m31 = M[3]![1]!, m32 = M[3]![2]!, m33 = M[3]![3]!;
+  // Separably: first along x for every padded row, R[r][i][m] = Σ_k M[k][m] P[r][i + k]
+  // (shared by the four cell rows that use padded row r), then along y,
+  // c[m][n] = Σ_l M[l][n] R[j + l][i][m]; the sums in the order of the formula above.
+  const R = new Float64Array(4 * NC * (H + 2));
+  for (let r = 0; r < H + 2; r++) {
+    for (let i = 0, a = r * PW, o = 4 * NC * r; i < NC; i++, a++, o += 4) {
+      const p0 = P[a]!, p1 = P[a + 1]!, p2 = P[a + 2]!, p3 = P[a + 3]!;
+      R[o] = m00 * p0 + m10 * p1 + m20 * p2 + m30 * p3;
+      R[o + 1] = m01 * p0 + m11 * p1 + m21 * p2 + m31 * p3;
+      R[o + 2] = m02 * p0 + m12 * p1 + m22 * p2 + m32 * p3;
+      R[o + 3] = m03 * p0 + m13 * p1 + m23 * p2 + m33 * p3;
+    }
+  }
+  const rs = 4 * NC;
   for (let j = 0; j < H - 1; j++) {
-    for (let i = 0; i < W - 1; i++) {
-      const base = j * PW + i;
+    for (let i = 0; i < NC; i++) {
+      const o = 16 * (j * NC + i);
+      const r0 = rs * j + 4 * i, r1 = r0 + rs, r2 = r1 + rs, r3 = r2 + rs;
       for (let m = 0; m < 4; m++) {
-        for (let l = 0; l < 4; l++) {
-          let a = 0;
-          for (let k = 0; k < 4; k++) a += M[k]![m]! * P[base + l * PW + k]!;
-          T[4 * m + l] = a;
-        }
-      }
-      const o = 16 * (j * (W - 1) + i);
-      for (let m = 0; m < 4; m++) {
-        for (let n = 0; n < 4; n++) {
-          let a = 0;
-          for (let l = 0; l < 4; l++) a += M[l]![n]! * T[4 * m + l]!;
-          C[o + 4 * m + n] = a;
-        }
+        const t0 = R[r0 + m]!, t1 = R[r1 + m]!, t2 = R[r2 + m]!, t3 = R[r3 + m]!;
+        const q = o + 4 * m;
+        C[q] = m00 * t0 + m10 * t1 + m20 * t2 + m30 * t3;
+        C[q + 1] = m01 * t0 + m11 * t1 + m21 * t2 + m31 * t3;
+        C[q + 2] = m02 * t0 + m12 * t1 + m22 * t2 + m32 * t3;
+        C[q + 3] = m03 * t0 + m13 * t1 + m23 * t2 + m33 * t3;
       }
     }
   }
