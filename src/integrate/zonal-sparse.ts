@@ -232,7 +232,7 @@ function icPairs(A: StencilMatrix): number[][] {
  * into `L` (zeroed). Returns `false` on breakdown (see `incompleteCholesky`).
  */
 function icFactor(A: StencilMatrix, pairs: readonly number[][], diagScale: number, L: Float64Array): boolean {
-  const { width, height, size, center, coef, di, dj, off } = A;
+  const { width, height, size, center, coef, di, dj, off, radius } = A;
   for (let j = 0; j < height; j++) {
     for (let i = 0; i < width; i++) {
       const k = j * width + i;
@@ -244,20 +244,29 @@ function icFactor(A: StencilMatrix, pairs: readonly number[][], diagScale: numbe
       }
       const dkk = diagScale * akk;
       let diag = dkk;
+      // every lower offset of a node `radius` or more from the left, right and top edges
+      // lies in the grid: no bounds tests there
+      const inner = i >= radius && i < width - radius && j >= radius;
       for (let o = 0; o < center; o++) {
-        const ii = i + di[o]!;
-        const jj = j + dj[o]!;
-        if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+        if (!inner) {
+          const ii = i + di[o]!;
+          const jj = j + dj[o]!;
+          if (ii < 0 || ii >= width || jj < 0 || jj >= height) continue;
+        }
         const c = k + off[o]!;
         const cbase = c * size;
         let s = coef[base + o]!;
         const list = pairs[o]!;
-        for (let t = 0; t < list.length; t += 2) {
-          const o1 = list[t]!;
-          const i1 = i + di[o1]!;
-          const j1 = j + dj[o1]!;
-          if (i1 < 0 || i1 >= width || j1 < 0 || j1 >= height) continue;
-          s -= L[base + o1]! * L[cbase + list[t + 1]!]!;
+        if (inner) {
+          for (let t = 0; t < list.length; t += 2) s -= L[base + list[t]!]! * L[cbase + list[t + 1]!]!;
+        } else {
+          for (let t = 0; t < list.length; t += 2) {
+            const o1 = list[t]!;
+            const i1 = i + di[o1]!;
+            const j1 = j + dj[o1]!;
+            if (i1 < 0 || i1 >= width || j1 < 0 || j1 >= height) continue;
+            s -= L[base + o1]! * L[cbase + list[t + 1]!]!;
+          }
         }
         if (s === 0) continue;
         const l = s / L[cbase + center]!;
