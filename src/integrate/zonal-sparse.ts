@@ -61,6 +61,9 @@ export function createStencilMatrix(width: number, height: number, radius: numbe
   };
 }
 
+/** Scratch of {@link addEquation} for equations of up to 16 nodes. */
+const EQ_KEYS = new Int32Array(16);
+
 /**
  * Add `w · c cᵀ` for one least-squares equation `Σ_t c_t h[nodes_t] ≈ s` (and `w c s`
  * to `rhs`). Nodes must lie within the box of each other.
@@ -77,19 +80,21 @@ export function addEquation(
   s: number,
 ): void {
   const { width, side, size, radius, coef } = A;
+  // Each node's box key j·side + i, once: the slot of node b in row a is then
+  // key(b) − key(a) + centre, with no division in the double loop.
+  const key = count <= EQ_KEYS.length ? EQ_KEYS : new Int32Array(count);
   for (let t = 0; t < count; t++) {
     const a = nodes[t]!;
-    const ai = a % width;
-    const aj = (a - ai) / width;
+    const i = a % width;
+    key[t] = ((a - i) / width) * side + i;
+  }
+  const centre = radius * side + radius;
+  for (let t = 0; t < count; t++) {
+    const a = nodes[t]!;
     const wc = w * c[t]!;
     rhs[a]! += wc * s;
-    const base = a * size;
-    for (let u = 0; u < count; u++) {
-      const b = nodes[u]!;
-      const bi = b % width;
-      const bj = (b - bi) / width;
-      coef[base + (bj - aj + radius) * side + (bi - ai + radius)]! += wc * c[u]!;
-    }
+    const base = a * size + centre - key[t]!;
+    for (let u = 0; u < count; u++) coef[base + key[u]!]! += wc * c[u]!;
   }
 }
 
