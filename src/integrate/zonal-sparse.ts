@@ -98,14 +98,18 @@ export function addEquation(
   }
 }
 
-/** `out = A v`. Interior rows skip the bounds checks. @internal */
-export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Array): void {
+/**
+ * `out = A v`, returning `v · out` (summed in index order, as a separate pass would).
+ * Interior rows skip the bounds checks. @internal
+ */
+export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Array): number {
   const { width, height, size, coef, di, dj, off, radius } = A;
   const fast = radius === 2 && width >= 5;
+  let dot = 0;
   for (let j = 0; j < height; j++) {
     const inner = j >= radius && j < height - radius;
     if (fast && j > 2 && j < height - 3) {
-      stencilRow5(coef, v, out, width, j);
+      dot = stencilRow5(coef, v, out, width, j, dot);
       continue;
     }
     for (let i = 0; i < width; i++) {
@@ -125,8 +129,10 @@ export function applyStencil(A: StencilMatrix, v: Float64Array, out: Float64Arra
         }
       }
       out[k] = s;
+      dot += v[k]! * s;
     }
   }
+  return dot;
 }
 
 /**
@@ -289,9 +295,10 @@ function icFactor(A: StencilMatrix, pairs: readonly number[][], diagScale: numbe
  * One row `j` (at least 3 rows from the top and bottom) of `out = A v` for a radius-2
  * stencil, unrolled. Columns near the left and right edges read wrapped neighbours of the
  * adjacent rows, whose coefficients are zero (equations only couple nodes of the grid),
- * so they need no bounds tests; `v` must be finite.
+ * so they need no bounds tests; `v` must be finite. Adds `v_k · out_k` of the row, in
+ * order, to `dot` and returns it.
  */
-function stencilRow5(coef: Float64Array, v: Float64Array, out: Float64Array, w: number, j: number): void {
+function stencilRow5(coef: Float64Array, v: Float64Array, out: Float64Array, w: number, j: number, dot: number): number {
   const w2 = 2 * w;
   let k = j * w;
   const end = k + w;
@@ -304,18 +311,21 @@ function stencilRow5(coef: Float64Array, v: Float64Array, out: Float64Array, w: 
   for (; k < end; k++) {
     const b = k * 25, q = k + 2;
     const a4 = v[q - w2]!, b4 = v[q - w]!, c4 = v[q]!, d4 = v[q + w]!, e4 = v[q + w2]!;
-    out[k] =
+    const s =
       coef[b]! * a0 + coef[b + 1]! * a1 + coef[b + 2]! * a2 + coef[b + 3]! * a3 + coef[b + 4]! * a4 +
       (coef[b + 5]! * b0 + coef[b + 6]! * b1 + coef[b + 7]! * b2 + coef[b + 8]! * b3 + coef[b + 9]! * b4) +
       (coef[b + 10]! * c0 + coef[b + 11]! * c1 + coef[b + 12]! * c2 + coef[b + 13]! * c3 + coef[b + 14]! * c4) +
       (coef[b + 15]! * d0 + coef[b + 16]! * d1 + coef[b + 17]! * d2 + coef[b + 18]! * d3 + coef[b + 19]! * d4) +
       (coef[b + 20]! * e0 + coef[b + 21]! * e1 + coef[b + 22]! * e2 + coef[b + 23]! * e3 + coef[b + 24]! * e4);
+    out[k] = s;
+    dot += c2 * s;
     a0 = a1; a1 = a2; a2 = a3; a3 = a4;
     b0 = b1; b1 = b2; b2 = b3; b3 = b4;
     c0 = c1; c1 = c2; c2 = c3; c3 = c4;
     d0 = d1; d1 = d2; d2 = d3; d3 = d4;
     e0 = e1; e1 = e2; e2 = e3; e3 = e4;
   }
+  return dot;
 }
 
 /**
@@ -488,6 +498,34 @@ export function removeLabelMeans(v: Float64Array, labels: Int32Array, count: num
   }
 }
 
+/**
+ * {@link removeLabelMeans} on `z`, returning `r · z` afterwards (in index order): for one
+ * label the subtraction and the product share a pass.
+ */
+function projectDot(z: Float64Array, r: Float64Array, labels: Int32Array, count: number, sums: Float64Array, counts: Float64Array): number {
+  const n = z.length;
+  let rz = 0;
+  if (count === 1) {
+    let sum = 0, cnt = 0;
+    for (let k = 0; k < n; k++) {
+      if (labels[k] === 1) {
+        sum += z[k]!;
+        cnt++;
+      }
+    }
+    const mean = cnt > 0 ? sum / cnt : 0;
+    for (let k = 0; k < n; k++) {
+      const v = labels[k] === 0 ? 0 : z[k]! - mean;
+      z[k] = v;
+      rz += r[k]! * v;
+    }
+    return rz;
+  }
+  removeLabelMeans(z, labels, count, sums, counts);
+  for (let k = 0; k < n; k++) rz += r[k]! * z[k]!;
+  return rz;
+}
+
 /** @internal */
 export interface StencilSolveOptions {
   tolerance: number;
@@ -529,9 +567,9 @@ export function solveStencil(
     x,
     (r, z) => {
       applyCholesky(A, F, r, z);
-      removeLabelMeans(z, labels, count, sums, counts);
+      return projectDot(z, r, labels, count, sums, counts);
     },
-    opts,
+    { ...opts, applyADot: (v, out) => applyStencil(A, v, out) },
   );
   removeLabelMeans(x, labels, count, sums, counts);
   return { x, result };
