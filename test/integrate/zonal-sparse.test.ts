@@ -78,14 +78,17 @@ function factorProduct(A: StencilMatrix, L: Float64Array, z: Float64Array): Floa
 // identities, no outside data needed.
 describe('box-stencil kernels', () => {
   for (const [w, h, radius] of [[9, 12, 2], [5, 8, 2], [7, 6, 1], [4, 9, 2]] as const) {
-    it(`applyStencil equals the dense product (${w}×${h}, radius ${radius})`, () => {
+    it(`applyStencil equals the dense product and returns v · Av (${w}×${h}, radius ${radius})`, () => {
       const A = randomStencil(w, h, radius, 11 + w);
       const rng = createRng(5);
       const v = new Float64Array(w * h).map(() => rng.uniform(-1, 1));
       const out = new Float64Array(w * h);
-      applyStencil(A, v, out);
+      const dot = applyStencil(A, v, out);
       const ref = denseApply(A, v);
       for (let k = 0; k < ref.length; k++) expect(out[k]).toBeCloseTo(ref[k]!, 12);
+      let vo = 0;
+      for (let k = 0; k < ref.length; k++) vo += v[k]! * out[k]!;
+      expect(dot).toBe(vo); // v · Av, summed in index order
     });
 
     it(`applyCholesky solves L Lᵀ z = r for the incomplete factor (${w}×${h}, radius ${radius})`, () => {
