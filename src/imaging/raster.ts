@@ -377,10 +377,32 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
     let C2 = (X1 - X0) * (PY0 - Y0) + (Y1 - Y0) * X0;
     const dC0 = SNAP * (X2 - X1), dC1 = SNAP * (X0 - X2), dC2 = SNAP * (X1 - X0);
     const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
-    const dw0 = A0 * iA, dw1 = A1 * iA, dw2 = -dw0 - dw1;
-    // second-order coefficient of the quadratic term along a row (the same on every row)
-    const q2u = k01u * dw0 * dw1 + k12u * dw1 * dw2 + k02u * dw0 * dw2;
-    const q2v = k01v * dw0 * dw1 + k12v * dw1 * dw2 + k02v * dw0 * dw2;
+    // The quadratic term Σ kᵢⱼ wᵢ wⱼ as a polynomial in X = px − minX, Y = py − minY:
+    // wᵢ = αᵢ + βᵢ X + γᵢ Y, so the term is Q00 + Q10 X + Q01 Y + Q20 X² + Q11 X Y + Q02 Y²
+    // (Q20 the second difference along a row, the same on every row).
+    let qu00 = 0, qu10 = 0, qu01 = 0, qu20 = 0, qu11 = 0, qu02 = 0;
+    let qv00 = 0, qv10 = 0, qv01 = 0, qv20 = 0, qv11 = 0, qv02 = 0;
+    if (hasCurv) {
+      const al0 = (C0 + A0 * minX) * iA, al1 = (C1 + A1 * minX) * iA, al2 = 1 - al0 - al1;
+      const be0 = A0 * iA, be1 = A1 * iA, be2 = -be0 - be1;
+      const ga0 = dC0 * iA, ga1 = dC1 * iA, ga2 = -ga0 - ga1;
+      // products wᵢ wⱼ of the pairs (0, 1), (1, 2), (0, 2), term by term
+      const p00a = al0 * al1, p00b = al1 * al2, p00c = al0 * al2;
+      const p10a = al0 * be1 + al1 * be0, p10b = al1 * be2 + al2 * be1, p10c = al0 * be2 + al2 * be0;
+      const p01a = al0 * ga1 + al1 * ga0, p01b = al1 * ga2 + al2 * ga1, p01c = al0 * ga2 + al2 * ga0;
+      const p20a = be0 * be1, p20b = be1 * be2, p20c = be0 * be2;
+      const p11a = be0 * ga1 + be1 * ga0, p11b = be1 * ga2 + be2 * ga1, p11c = be0 * ga2 + be2 * ga0;
+      const p02a = ga0 * ga1, p02b = ga1 * ga2, p02c = ga0 * ga2;
+      qu00 = k01u * p00a + k12u * p00b + k02u * p00c; qv00 = k01v * p00a + k12v * p00b + k02v * p00c;
+      qu10 = k01u * p10a + k12u * p10b + k02u * p10c; qv10 = k01v * p10a + k12v * p10b + k02v * p10c;
+      qu01 = k01u * p01a + k12u * p01b + k02u * p01c; qv01 = k01v * p01a + k12v * p01b + k02v * p01c;
+      qu20 = k01u * p20a + k12u * p20b + k02u * p20c; qv20 = k01v * p20a + k12v * p20b + k02v * p20c;
+      qu11 = k01u * p11a + k12u * p11b + k02u * p11c; qv11 = k01v * p11a + k12v * p11b + k02v * p11c;
+      qu02 = k01u * p02a + k12u * p02b + k02u * p02c; qv02 = k01v * p02a + k12v * p02b + k02v * p02c;
+    }
+    // the source position is then, along a row Y, rowC + rowB·X + Q20·X²
+    const bu0 = au + qu10, bv0 = av + qv10;
+    const ddu = 2 * qu20, ddv = 2 * qv20;
     // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the
     // sampling needs no clamps: the linear part stays in the source triangle and the
     // quadratic term is at most ¼ Σ|kᵢⱼ| (each product of weights is at most ¼ inside).
@@ -402,20 +424,16 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       else if (C2 < m2) continue;
       if (lo > hi) continue;
       const row = py * W;
-      // The source position at lo and its first and second differences along the row: the
-      // quadratic term is a quadratic in px there (the weights are linear in px).
+      // The source position at lo and its first and second differences along the row.
       let u = au * lo + bu * py + cu, v = av * lo + bv * py + cv;
-      let du = au, dv = av, ddu = 0, ddv = 0;
+      let du = au, dv = av;
       if (quad) {
-        const w0 = (C0 + A0 * lo) * iA, w1 = (C1 + A1 * lo) * iA, w2 = 1 - w0 - w1;
-        const a = w0 * w1, b = w1 * w2, c = w0 * w2;
-        u += a * k01u + b * k12u + c * k02u;
-        v += a * k01v + b * k12v + c * k02v;
-        const la = w0 * dw1 + w1 * dw0, lb = w1 * dw2 + w2 * dw1, lc = w0 * dw2 + w2 * dw0;
-        du += la * k01u + lb * k12u + lc * k02u + q2u;
-        dv += la * k01v + lb * k12v + lc * k02v + q2v;
-        ddu = 2 * q2u;
-        ddv = 2 * q2v;
+        const X = lo - minX, Y = py - minY;
+        const rbu = qu10 + qu11 * Y, rbv = qv10 + qv11 * Y; // Q's X-coefficient on this row
+        u += qu00 + (qu01 + qu02 * Y) * Y + (rbu + qu20 * X) * X;
+        v += qv00 + (qv01 + qv02 * Y) * Y + (rbv + qv20 * X) * X;
+        du = bu0 + qu11 * Y + qu20 * (2 * X + 1);
+        dv = bv0 + qv11 * Y + qv20 * (2 * X + 1);
       }
       if (src === null) {
         for (let p = row + lo, end = row + hi; p <= end; p++) {
