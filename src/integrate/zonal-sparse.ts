@@ -468,19 +468,24 @@ export function stencilComponents(A: StencilMatrix): { labels: Int32Array; count
   return { labels, count };
 }
 
+/** The mean of the entries of `v` labelled 1 (0 when there are none). */
+function labelOneMean(v: Float64Array, labels: Int32Array): number {
+  let sum = 0, cnt = 0;
+  for (let k = 0; k < v.length; k++) {
+    if (labels[k] === 1) {
+      sum += v[k]!;
+      cnt++;
+    }
+  }
+  return cnt > 0 ? sum / cnt : 0;
+}
+
 /** Subtract the mean of each label's entries (label 0 entries are zeroed). @internal */
 export function removeLabelMeans(v: Float64Array, labels: Int32Array, count: number, sums: Float64Array, counts: Float64Array): void {
   const n = v.length;
   if (count === 1) {
     // One piece (the common case): the sums stay in registers.
-    let sum = 0, cnt = 0;
-    for (let k = 0; k < n; k++) {
-      if (labels[k] === 1) {
-        sum += v[k]!;
-        cnt++;
-      }
-    }
-    const mean = cnt > 0 ? sum / cnt : 0;
+    const mean = labelOneMean(v, labels);
     for (let k = 0; k < n; k++) v[k] = labels[k] === 0 ? 0 : v[k]! - mean;
     return;
   }
@@ -506,14 +511,7 @@ function projectDot(z: Float64Array, r: Float64Array, labels: Int32Array, count:
   const n = z.length;
   let rz = 0;
   if (count === 1) {
-    let sum = 0, cnt = 0;
-    for (let k = 0; k < n; k++) {
-      if (labels[k] === 1) {
-        sum += z[k]!;
-        cnt++;
-      }
-    }
-    const mean = cnt > 0 ? sum / cnt : 0;
+    const mean = labelOneMean(z, labels);
     for (let k = 0; k < n; k++) {
       const v = labels[k] === 0 ? 0 : z[k]! - mean;
       z[k] = v;
