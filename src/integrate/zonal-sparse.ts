@@ -157,10 +157,10 @@ export interface CholeskyFactor {
 const IC_SHIFTS = [0, 1e-3, 1e-2, 0.05, 0.2, 1, 4];
 
 /**
- * Incomplete Cholesky factor `L` (a {@link CholeskyFactor}: lower offsets and diagonal of the box pattern) with
- * `A + α·diag(A) ≈ L Lᵀ`, for the smallest shift `α` in `IC_SHIFTS` at which the
- * factorisation does not break down. Rows with a zero diagonal (unused nodes) get
- * `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each singular piece,
+ * Incomplete Cholesky factor `L` (lower offsets and diagonal of the box pattern, returned
+ * as a {@link CholeskyFactor}) with `A + α·diag(A) ≈ L Lᵀ`, for the smallest shift `α` in
+ * `IC_SHIFTS` at which the factorisation does not break down. Rows with a zero diagonal
+ * (unused nodes) get `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each singular piece,
  * zero up to rounding) is replaced by `A_kk`, which keeps the preconditioner positive
  * definite.
  *
