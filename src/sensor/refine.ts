@@ -16,9 +16,9 @@ import { samplesFor } from './sample-data.js';
 import { slopesFromSpots } from './slopes.js';
 import type { ApertureSpots, SlopeSamples } from './slopes.js';
 
-
 /** Relative residual at which each pass's integration stops (see the comment at its use). */
 const SOLVER_TOLERANCE = 1e-8;
+
 /** Options of {@link reconstructSurface}. */
 export interface ReconstructOptions {
   /**

@@ -318,7 +318,7 @@ function powerCoefficients(P: Float64Array, W: number, H: number, M: readonly (r
   const PW = W + 2;
   const NC = W - 1;
   const C = new Float64Array(16 * NC * (H - 1));
-  // the basis as numbers: M[k][m] = b[4k + m]
+  // the basis in locals: mKM = M[k][m]
   const m00 = M[0]![0]!, m01 = M[0]![1]!, m02 = M[0]![2]!, m03 = M[0]![3]!;
   const m10 = M[1]![0]!, m11 = M[1]![1]!, m12 = M[1]![2]!, m13 = M[1]![3]!;
   const m20 = M[2]![0]!, m21 = M[2]![1]!, m22 = M[2]![2]!, m23 = M[2]![3]!;
