@@ -112,19 +112,9 @@ function addThinPlate(coef: Float64Array, width: number, height: number, off0: n
         coef[row + 18]! += cxy;
         continue;
       }
-      // (dx·h_xx)²: the differences centred at c = i − 1, i, i + 1, nodes c − 1, c, c + 1
-      // with coefficients (1, −2, 1)
-      for (let c = i - 1; c <= i + 1; c++) {
-        if (c < 1 || c > width - 2) continue;
-        const wk = cxx * (c === i ? -2 : 1);
-        for (let m = c - 1; m <= c + 1; m++) coef[row + 12 + m - i]! += wk * (m === c ? -2 : 1);
-      }
-      // (dy·h_yy)², likewise down the columns
-      for (let c = j - 1; c <= j + 1; c++) {
-        if (c < 1 || c > height - 2) continue;
-        const wk = cyy * (c === j ? -2 : 1);
-        for (let m = c - 1; m <= c + 1; m++) coef[row + 12 + 5 * (m - j)]! += wk * (m === c ? -2 : 1);
-      }
+      // (dx·h_xx)² along the row, (dy·h_yy)² down the column
+      addAxisSecondDifferences(coef, row, i, width, 1, cxx);
+      addAxisSecondDifferences(coef, row, j, height, 5, cyy);
       // 2(√(dx dy)·h_xy)²: the cells with corner k, nodes (ci + a, cj + b) with coefficients
       // +1 where a = b, −1 otherwise
       for (let cj = j - 1; cj <= j; cj++) {
@@ -139,6 +129,20 @@ function addThinPlate(coef: Float64Array, width: number, height: number, off0: n
         }
       }
     }
+  }
+}
+
+/**
+ * Row `row`'s share of the squared second differences along one axis, weight `cw`: the
+ * differences centred at `c = i − 1, i, i + 1` (those inside `1 … n − 2`) over the nodes
+ * `c − 1, c, c + 1` with coefficients `(1, −2, 1)`; `stride` is the slot step of one node
+ * along the axis (1 along a row, 5 down a column).
+ */
+function addAxisSecondDifferences(coef: Float64Array, row: number, i: number, n: number, stride: number, cw: number): void {
+  for (let c = i - 1; c <= i + 1; c++) {
+    if (c < 1 || c > n - 2) continue;
+    const wk = cw * (c === i ? -2 : 1);
+    for (let m = c - 1; m <= c + 1; m++) coef[row + 12 + stride * (m - i)]! += wk * (m === c ? -2 : 1);
   }
 }
 
