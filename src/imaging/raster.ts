@@ -400,7 +400,9 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       qu11 = k01u * p11a + k12u * p11b + k02u * p11c; qv11 = k01v * p11a + k12v * p11b + k02v * p11c;
       qu02 = k01u * p02a + k12u * p02b + k02u * p02c; qv02 = k01v * p02a + k12v * p02b + k02v * p02c;
     }
-    // the source position is then, along a row Y, rowC + rowB·X + Q20·X²
+    // along row Y the source position is then the linear part plus
+    // (Q00 + Q01 Y + Q02 Y²) + (Q10 + Q11 Y)·X + Q20·X²; its step along the row from X is
+    // au + Q10 + Q11 Y + Q20 (2X + 1) (bu0 = au + Q10), and its second difference 2·Q20
     const bu0 = au + qu10, bv0 = av + qv10;
     const ddu = 2 * qu20, ddv = 2 * qv20;
     // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the

@@ -160,9 +160,9 @@ const IC_SHIFTS = [0, 1e-3, 1e-2, 0.05, 0.2, 1, 4];
  * Incomplete Cholesky factor `L` (lower offsets and diagonal of the box pattern, returned
  * as a {@link CholeskyFactor}) with `A + α·diag(A) ≈ L Lᵀ`, for the smallest shift `α` in
  * `IC_SHIFTS` at which the factorisation does not break down. Rows with a zero diagonal
- * (unused nodes) get `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each singular piece,
- * zero up to rounding) is replaced by `A_kk`, which keeps the preconditioner positive
- * definite.
+ * (unused nodes) get `L_kk = 1`. A pivot in `[0, 1e-6 · A_kk)` (the last node of each
+ * singular piece, zero up to rounding) is replaced by `A_kk`, which keeps the
+ * preconditioner positive definite.
  *
  * Breakdown: for matrices that are not M-matrices (the thin-plate penalty of the
  * scattered integrator over a region without data, whose 13-point biharmonic stencil has
@@ -559,15 +559,16 @@ export function solveStencil(
   removeLabelMeans(bb, labels, count, sums, counts);
   const F = incompleteCholesky(A);
   const x = initial === undefined ? new Float64Array(n) : initial.slice();
+  const product = (v: Float64Array, out: Float64Array): number => applyStencil(A, v, out);
   const result = pcg(
-    (v, out) => applyStencil(A, v, out),
+    product,
     bb,
     x,
     (r, z) => {
       applyCholesky(A, F, r, z);
       return projectDot(z, r, labels, count, sums, counts);
     },
-    { ...opts, applyADot: (v, out) => applyStencil(A, v, out) },
+    { ...opts, applyADot: product },
   );
   removeLabelMeans(x, labels, count, sums, counts);
   return { x, result };
