@@ -315,6 +315,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
   // Scratch reused frame after frame.
   const owner = new Uint8Array(W * H);
   const meshScratch = meshTraceScratch(MC);
+  const rasterScratch = rasterMeshScratch(MC, MR, step);
 
   const correct = (distorted: Image, surface: Surface, copts?: CorrectOptions): CorrectionResult => {
     const cfn = 'PreparedCorrection.correct';
@@ -405,7 +406,7 @@ export function prepareCorrection(camera: CameraModel, pose: CameraPose, target:
     // over the pixels instead of two); the cubic map is refined first, so it samples after.
     const fused = step > 1 && !cubic && C === 1 && interp === 1;
     const target: RasterTarget = { width: W, height: H, map, owner, fold: foldMask, sample: fused ? { source: img.data, out: out.data } : null };
-    const flipped = rasterMesh(target, colsA, rowsA, vstat, outPix, step, Fuu, Fvv, curv1, curv2);
+    const flipped = rasterMesh(target, colsA, rowsA, vstat, outPix, step, Fuu, Fvv, curv1, curv2, rasterScratch);
     if (cubic) refineMap(W, H, map, owner, foldMask, step, cols, rows, coef!, cellOk!, 2, 2 * step);
     const t2 = now();
     const mask = reuse === null ? new Uint8Array(W * H) : (reuse.mask as Uint8Array);
@@ -521,16 +522,16 @@ function rasterMesh(
   Fvv: Float64Array | null,
   curv1: Float64Array | null,
   curv2: Float64Array | null,
+  scratch: RasterMeshScratch,
 ): number {
   const MC = cols.length, MR = rows.length;
   let flipped = 0;
   const quadratic = Fuu !== null && Fvv !== null && curv1 !== null && curv2 !== null;
   // The exact mode's one-pixel cells take their corners on the snap lattice, computed
-  // once a vertex.
-  const snapped = new Int32Array(step === 1 ? 2 * vstat.length : 0), snapOk = new Uint8Array(step === 1 ? vstat.length : 0);
+  // once a vertex; larger cells go to the rasteriser a mesh row at a time, as one list
+  // in mesh order.
+  const { snapped, snapOk, tris } = scratch;
   if (step === 1) snapVertices(outPix, vstat, S_OK, snapped, snapOk);
-  // Larger cells go to the rasteriser a mesh row at a time, as one list in mesh order.
-  const tris = new Float64Array(step > 1 ? 2 * (MC - 1) * TRI_STRIDE : 0);
   for (let j = 0; j + 1 < MR; j++) {
     const va = rows[j]!, vc = rows[j + 1]!;
     let n = 0;
@@ -569,6 +570,20 @@ function rasterMesh(
     if (n > 0) rasterTrianglesSnapped(target, tris, n);
   }
   return flipped;
+}
+
+/** Buffers of {@link rasterMesh}, reused frame after frame (9 bytes a vertex in the exact mode). */
+interface RasterMeshScratch {
+  /** Exact mode: the vertices on the snap lattice, and whether each is on it. */
+  snapped: Int32Array;
+  snapOk: Uint8Array;
+  /** Fast mode: one mesh row's triangle list. */
+  tris: Float64Array;
+}
+
+function rasterMeshScratch(MC: number, MR: number, step: number): RasterMeshScratch {
+  const nv = step === 1 ? MC * MR : 0;
+  return { snapped: new Int32Array(2 * nv), snapOk: new Uint8Array(nv), tris: new Float64Array(step > 1 ? 2 * (MC - 1) * TRI_STRIDE : 0) };
 }
 
 /** Whether the one-pixel cell with top-left vertex ka has all four corners on the snap lattice (so all valid). */

@@ -566,13 +566,16 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
     if (Yc < lo) lo = Yc; else if (Yc > hi) hi = Yc;
     if (Yd < lo) lo = Yd; else if (Yd > hi) hi = Yd;
     let minY = (lo + SNAP - 1) >> 8, maxY = hi >> 8;
-    if (maxX - minX <= 1 && maxY - minY <= 1 && minX >= 0 && minY >= 0 && minX < W - 1 && minY < H - 1) {
-      // The common cell: at most 2 × 2 pixel centres in its box, all in the image. The
-      // eight (centre, triangle) coverage tests are made without a branch on int32
-      // values, then only the covered pairs visited, in the order of the general loop
-      // below (rows, then columns, triangle 1 before 2 at a centre).
+    if (minX > maxX || minY > maxY) continue; // no pixel centre in the box (a fifth of the cells)
+    const nx = maxX - minX, ny = maxY - minY;
+    if (nx <= 3 && ny <= 3 && minX >= 0 && minY >= 0 && maxX < W && maxY < H) {
+      // The common cell: at most 4 × 4 pixel centres in its box (almost always 2 × 2 or
+      // fewer), all in the image. The (centre, triangle) coverage tests are made without a
+      // branch on int32 values into a bit mask, then only the covered pairs visited, in
+      // the order of the general loop below (rows, then columns, triangle 1 before 2 at a
+      // centre).
       //
-      // Corners relative to the box's first centre (X0, Y0), within 3 px of it, so all
+      // Corners relative to the box's first centre (X0, Y0), within 5 px of it, so all
       // below is exact int32. The edge P → Q has e(x, y) = P×Q + (Qx − Px)·y − (Qy − Py)·x
       // there (cross product P×Q = Px·Qy − Py·Qx), and the coverage value
       // E = 2·sg·e + (owned ? 1 : −1) for a triangle of orientation sg = ±1: odd, never 0,
@@ -592,29 +595,52 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
       const A2 = (Math.imul(t2, ad) + ((Math.imul(g2, ((dy - ay) << 12) + dx - ax) >> 31) | 1)) | 0;
       const B2 = (Math.imul(t2, (Math.imul(dx, cy) - Math.imul(dy, cx)) | 0) + ((Math.imul(g2, ((cy - dy) << 12) + cx - dx) >> 31) | 1)) | 0;
       const C2 = (Math.imul(t2, (Math.imul(cx, ay) - Math.imul(cy, ax)) | 0) + ((Math.imul(g2, ((ay - cy) << 12) + ax - cx) >> 31) | 1)) | 0;
-      // steps per pixel: x adds −2·sg·256·(Qy − Py), y adds 2·sg·256·(Qx − Px)
-      const xa1 = Math.imul(t1, ay - by) << 8, ya1 = Math.imul(t1, bx - ax) << 8;
-      const xb1 = Math.imul(t1, by - dy) << 8, yb1 = Math.imul(t1, dx - bx) << 8;
-      const xc1 = Math.imul(t1, dy - ay) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
-      const xa2 = Math.imul(t2, ay - dy) << 8, ya2 = Math.imul(t2, dx - ax) << 8;
-      const xb2 = Math.imul(t2, dy - cy) << 8, yb2 = Math.imul(t2, cx - dx) << 8;
-      const xc2 = Math.imul(t2, cy - ay) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
-      // bit 2·(2·row + column) + (triangle − 1); a degenerate triangle covers nothing
+      // a degenerate triangle covers nothing
       const k1 = (area1 | -area1) >> 31, k2 = (area2 | -area2) >> 31;
-      let bits =
-        ((~(A1 | B1 | C1) >>> 31) |
-          ((~((A1 + xa1) | (B1 + xb1) | (C1 + xc1)) >>> 31) << 2) |
-          ((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 4) |
-          ((~((A1 + xa1 + ya1) | (B1 + xb1 + yb1) | (C1 + xc1 + yc1)) >>> 31) << 6)) & k1;
-      bits |=
-        (((~(A2 | B2 | C2) >>> 31) << 1) |
-          ((~((A2 + xa2) | (B2 + xb2) | (C2 + xc2)) >>> 31) << 3) |
-          ((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 5) |
-          ((~((A2 + xa2 + ya2) | (B2 + xb2 + yb2) | (C2 + xc2 + yc2)) >>> 31) << 7)) & k2;
+      // Bit 2·(4·row + column) + (triangle − 1). Steps per pixel: x adds
+      // −2·sg·256·(Qy − Py), y adds 2·sg·256·(Qx − Px); a step is taken only where the
+      // box has that column or row (a third of the cells have a single centre).
+      let bits = ((~(A1 | B1 | C1) >>> 31) & k1) | (((~(A2 | B2 | C2) >>> 31) << 1) & k2);
+      if (nx <= 1 && ny <= 1) {
+        if (nx === 1) {
+          const xa1 = Math.imul(t1, ay - by) << 8, xb1 = Math.imul(t1, by - dy) << 8, xc1 = Math.imul(t1, dy - ay) << 8;
+          const xa2 = Math.imul(t2, ay - dy) << 8, xb2 = Math.imul(t2, dy - cy) << 8, xc2 = Math.imul(t2, cy - ay) << 8;
+          const A1x = (A1 + xa1) | 0, B1x = (B1 + xb1) | 0, C1x = (C1 + xc1) | 0;
+          const A2x = (A2 + xa2) | 0, B2x = (B2 + xb2) | 0, C2x = (C2 + xc2) | 0;
+          bits |= (((~(A1x | B1x | C1x) >>> 31) << 2) & k1) | (((~(A2x | B2x | C2x) >>> 31) << 3) & k2);
+          if (ny === 1) {
+            const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
+            const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+            bits |= (((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 8) | ((~((A1x + ya1) | (B1x + yb1) | (C1x + yc1)) >>> 31) << 10)) & k1;
+            bits |= (((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 9) | ((~((A2x + ya2) | (B2x + yb2) | (C2x + yc2)) >>> 31) << 11)) & k2;
+          }
+        } else if (ny === 1) {
+          const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
+          const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+          bits |= (((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 8) & k1) | (((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 9) & k2);
+        }
+      } else {
+        // a wider box (one cell in twenty): the same tests, row by row
+        const xa1 = Math.imul(t1, ay - by) << 8, xb1 = Math.imul(t1, by - dy) << 8, xc1 = Math.imul(t1, dy - ay) << 8;
+        const xa2 = Math.imul(t2, ay - dy) << 8, xb2 = Math.imul(t2, dy - cy) << 8, xc2 = Math.imul(t2, cy - ay) << 8;
+        const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
+        const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+        bits = 0;
+        for (let r = 0, ra1 = A1, rb1 = B1, rc1 = C1, ra2 = A2, rb2 = B2, rc2 = C2; r <= ny; r++) {
+          for (let q = 0, e1 = ra1, f1 = rb1, h1 = rc1, e2 = ra2, f2 = rb2, h2 = rc2; q <= nx; q++) {
+            const sh = (r << 3) | (q << 1);
+            bits |= (((~(e1 | f1 | h1) >>> 31) & k1) | (((~(e2 | f2 | h2) >>> 31) << 1) & k2)) << sh;
+            e1 = (e1 + xa1) | 0; f1 = (f1 + xb1) | 0; h1 = (h1 + xc1) | 0;
+            e2 = (e2 + xa2) | 0; f2 = (f2 + xb2) | 0; h2 = (h2 + xc2) | 0;
+          }
+          ra1 = (ra1 + ya1) | 0; rb1 = (rb1 + yb1) | 0; rc1 = (rc1 + yc1) | 0;
+          ra2 = (ra2 + ya2) | 0; rb2 = (rb2 + yb2) | 0; rc2 = (rc2 + yc2) | 0;
+        }
+      }
       while (bits !== 0) {
         const b = 31 - Math.clz32(bits & -bits);
         bits &= bits - 1;
-        const px = minX + ((b >> 1) & 1), py = minY + (b >> 2);
+        const px = minX + ((b >> 1) & 3), py = minY + (b >> 3);
         const p = py * W + px;
         const PX = px * SNAP, PY = py * SNAP;
         if ((b & 1) === 0) {

@@ -4,7 +4,7 @@ import { bilinear1, putTriangle, rasterTriangleSnapped, rasterTrianglesSnapped, 
 import type { RasterTarget } from '../../src/imaging/raster.js';
 
 // The exact mode's cell rasteriser takes a row of one-pixel cells at once, with a
-// branch-free test for cells whose box holds at most 2 × 2 pixel centres. It must cover
+// branch-free test for cells whose box holds at most 4 × 4 pixel centres. It must cover
 // exactly what the one-triangle rasteriser covers with the same triangles in the same
 // order (same owners, same folds), and interpolate the same source positions (an
 // internal consistency check; the one-triangle rasteriser is checked for watertightness
@@ -13,20 +13,45 @@ describe('rasterUnitCellsSnapped', () => {
   const W = 48, H = 40;
   const target = (): RasterTarget => ({ width: W, height: H, map: new Float32Array(2 * W * H), owner: new Uint8Array(W * H), fold: new Uint8Array(W * H), sample: null });
 
-  for (const amp of [0.2, 0.7, 1.5, 4]) {
-    it(`equals triangle-by-triangle rasterisation on a lattice jittered by ±${amp / 2} px (folds included)`, () => {
-      const rng = createRng(7 + amp * 10);
+  // jitter amplitude (px), lattice spacing along x and y (px), corners rounded to pixel
+  // centres (ties everywhere)
+  const cases: [number, number, number, boolean][] = [
+    [0.2, 1, 1, false], [0.7, 1, 1, false], [1.5, 1, 1, false], [4, 1, 1, false],
+    [0, 1, 1, true], [0.6, 1.7, 1.7, false], [1.2, 2.3, 2.3, true], [0.3, 4.3, 2.2, false],
+  ];
+  for (const [amp, sx, sy, round] of cases) {
+    it(`equals triangle-by-triangle rasterisation on a lattice of ${sx} × ${sy} px jittered by ±${amp / 2} px${round ? ', corners on pixel centres' : ''} (folds included)`, () => {
+      const rng = createRng(7 + amp * 10 + sx * 100);
       // a mesh a little larger than the image, so that cells straddle its borders
-      const mc = W + 6, mr = H + 6;
+      const mc = Math.ceil(W / sx) + 6, mr = Math.ceil(H / sy) + 6;
       const snapped = new Int32Array(2 * mc * mr);
       for (let j = 0; j < mr; j++) {
         for (let i = 0; i < mc; i++) {
-          const x = i - 3 + amp * (rng.uniform() - 0.5) + 0.25 * Math.sin(j / 3);
-          const y = j - 3 + amp * (rng.uniform() - 0.5);
+          let x = (i - 3) * sx + amp * (rng.uniform() - 0.5) + 0.25 * Math.sin(j / 3);
+          let y = (j - 3) * sy + amp * (rng.uniform() - 0.5);
+          if (round) {
+            x = Math.round(x);
+            y = Math.round(y);
+          }
           snapped[2 * (j * mc + i)] = Math.floor(x * 256 + 0.5);
           snapped[2 * (j * mc + i) + 1] = Math.floor(y * 256 + 0.5);
         }
       }
+      // which boxes of pixel centres the cells have (the fast paths go by 1 × 1, 2 × 2 and
+      // up to 4 × 4 boxes)
+      const boxes = new Set<string>();
+      for (let j = 0; j + 1 < mr; j++) {
+        for (let i = 0; i + 1 < mc; i++) {
+          const k = j * mc + i, c = [k, k + 1, k + mc, k + mc + 1];
+          const xs = c.map((q) => snapped[2 * q]!), ys = c.map((q) => snapped[2 * q + 1]!);
+          const nx = (Math.max(...xs) >> 8) - ((Math.min(...xs) + 255) >> 8) + 1;
+          const ny = (Math.max(...ys) >> 8) - ((Math.min(...ys) + 255) >> 8) + 1;
+          boxes.add(`${Math.max(nx, 0)}x${Math.max(ny, 0)}`);
+        }
+      }
+      if (sx === 1.7) expect(boxes.has('3x2') && boxes.has('1x1') && boxes.has('2x2')).toBe(true);
+      if (sx === 2.3) expect(boxes.has('3x3') && boxes.has('4x4') && boxes.has('3x4')).toBe(true);
+      if (sx === 4.3) expect(boxes.has('5x3') && boxes.has('4x2')).toBe(true); // 5 wide: the general loop
       const a = target(), b = target();
       let flippedA = 0, flippedB = 0;
       for (let v0 = 0; v0 + 1 < mr; v0++) {
@@ -55,8 +80,9 @@ describe('rasterUnitCellsSnapped', () => {
       // the same barycentric interpolation, written two ways: rounding only
       expect(worst).toBeLessThan(1e-4);
       // an unfolded lattice covers every pixel once; the check saw real coverage
-      if (amp < 1) expect(covered).toBe(W * H);
-      else expect(a.fold.some((f) => f === 1)).toBe(true);
+      if (amp < 1 && !round) expect(covered).toBe(W * H);
+      else if (amp >= 1 && sx === 1) expect(a.fold.some((f) => f === 1)).toBe(true);
+      else expect(covered).toBeGreaterThan(0.9 * W * H);
     });
   }
 });
