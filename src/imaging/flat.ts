@@ -160,7 +160,7 @@ export function referencePoint(f: FlatContext, a: number, b: number, c: number, 
         const tb = f.table;
         let done = false;
         if (tb !== null && Math.abs(c - f.planeZ) <= 1e-12 * (1 + Math.abs(c))) {
-          const x = rho / f.tableStep;
+          const x = rho * (1 / f.tableStep);
           const k = Math.floor(x);
           if (k < TABLE_SIZE - 1) {
             r = tableCrossing(tb, k, x - k, f.tableStep);
@@ -169,7 +169,7 @@ export function referencePoint(f: FlatContext, a: number, b: number, c: number, 
         }
         if (!done) r = solveCrossing(f.n1, f.n2, aa, bb, rho, -1, 1e-12 * (aa + bb));
       }
-      const s = rho > 0 ? r / rho : 0;
+      const s = rho > 0 ? r * (1 / rho) : 0;
       wx = s * ex;
       wy = s * ey;
       wz = f.level - cz;
@@ -212,7 +212,7 @@ export function referencePoints(f: FlatContext, pts: Float64Array, stat: Uint8Ar
   const C = f.pose.position, m = f.pose.rotation;
   const cx = C[0], cy = C[1], cz = C[2];
   const m0 = m[0], m1 = m[1], m2 = m[2], m3 = m[3], m4 = m[4], m5 = m[5], m6 = m[6], m7 = m[7], m8 = m[8];
-  const h = f.tableStep, wz = f.level - cz;
+  const h = f.tableStep, ih = 1 / h, wz = f.level - cz;
   for (let e = 0; e < n; e++) {
     if (stat[e] !== S_OK) continue;
     const a = pts[3 * e]!, b = pts[3 * e + 1]!, c = pts[3 * e + 2]!;
@@ -225,13 +225,14 @@ export function referencePoints(f: FlatContext, pts: Float64Array, stat: Uint8Ar
     const rho = Math.sqrt(ex * ex + ey * ey);
     let s = 0;
     if (rho > 0) {
-      const x = rho / h;
+      // the reciprocals are taken beside the table's chain, not at its end
+      const x = rho * ih, irho = 1 / rho;
       const k = Math.floor(x);
       if (!(k < TABLE_SIZE - 1)) {
         stat[e] = referencePoint(f, a, b, c, out, o);
         continue;
       }
-      s = tableCrossing(tb, k, x - k, h) / rho;
+      s = tableCrossing(tb, k, x - k, h) * irho;
     }
     const wx = s * ex, wy = s * ey;
     out[o] = m0 * wx + m3 * wy + m6 * wz;

@@ -253,7 +253,7 @@ export function traceRay(ctx: TraceContext, ox: number, oy: number, oz: number, 
     res[3] = ox;
     res[4] = oy;
     res[5] = oz;
-    return toScene(ctx, ox, oy, oz, dx, dy, dz, res, 0);
+    return toScene(ctx, ox, oy, oz, dx, dy, dz, 1, res, 0);
   }
   const st = hitSurface(ctx, ox, oy, oz, dx, dy, dz, hit, guess, warm);
   if (st !== S_OK) return st;
@@ -266,33 +266,45 @@ export function traceRay(ctx: TraceContext, ox: number, oy: number, oz: number, 
 /**
  * The unit ray `d` refracted at the surface point `P` of slopes `(p, q)` and carried to
  * the scene: the scene point or direction into out[o..o+2] (see {@link traceRay}).
+ *
+ * The vector Snell law written on the unnormalised normal `N = ±(−p, −q, 1)` (facing the
+ * ray, `N·N = w = 1 + p² + q²`, `cN = N·d ≤ 0`): with the unit normal `N/√w` and
+ * `c1 = −cN/√w`, `t = η d + (η c1 − √k)·N/√w` and `k = K/w`, `K = w − η²(w − cN²)`, so
+ * `w·t = η w d − (η cN + √K)·N` (total internal reflection when `K < 0`). One square
+ * root and no division on the way to the plane; {@link toScene} divides once.
  * Small on purpose, so that the compiler inlines it into the loops that call it.
  */
 function refractToScene(ctx: TraceContext, dx: number, dy: number, dz: number, px: number, py: number, pz: number, p: number, q: number, out: Float64Array, o: number): number {
-  const inv = 1 / Math.sqrt(1 + p * p + q * q);
-  let nx = -p * inv, ny = -q * inv, nz = inv;
-  let c = nx * dx + ny * dy + nz * dz;
-  if (c > 0) {
-    nx = -nx;
-    ny = -ny;
-    nz = -nz;
-    c = -c;
+  const w = 1 + p * p + q * q;
+  let nx = -p, ny = -q, nz = 1;
+  let cn = dz - p * dx - q * dy;
+  if (cn > 0) {
+    nx = p;
+    ny = q;
+    nz = -1;
+    cn = -cn;
   }
   const eta = ctx.eta;
-  const k = 1 - eta * eta * (1 - c * c);
-  if (k < 0) return S_TIR;
-  const f = -eta * c - Math.sqrt(k);
-  return toScene(ctx, px, py, pz, eta * dx + f * nx, eta * dy + f * ny, eta * dz + f * nz, out, o);
+  const K = w - eta * eta * (w - cn * cn);
+  if (K < 0) return S_TIR;
+  const f = -eta * cn - Math.sqrt(K);
+  const ew = eta * w;
+  return toScene(ctx, px, py, pz, ew * dx + f * nx, ew * dy + f * ny, ew * dz + f * nz, w, out, o);
 }
 
-/** The ray from P along t to the scene: its point on the plane, or t itself for the sky, into out[o..o+2]. */
-function toScene(ctx: TraceContext, px: number, py: number, pz: number, tx: number, ty: number, tz: number, out: Float64Array, o: number): number {
+/**
+ * The ray from P along `t = (tx, ty, tz)/w` (`w` > 0, a scale of the direction's
+ * components) to the scene: its point on the plane, or the unit t itself for the sky,
+ * into out[o..o+2].
+ */
+function toScene(ctx: TraceContext, px: number, py: number, pz: number, tx: number, ty: number, tz: number, w: number, out: Float64Array, o: number): number {
   const sc = ctx.scene;
   if (sc.kind === 0) {
     if (!(tz > 0)) return S_OUTSIDE;
-    out[o] = tx;
-    out[o + 1] = ty;
-    out[o + 2] = tz;
+    const iw = 1 / w;
+    out[o] = tx * iw;
+    out[o + 1] = ty * iw;
+    out[o + 2] = tz * iw;
     return S_OK;
   }
   const sp = (sc.z - pz) / tz;
