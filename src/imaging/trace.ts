@@ -374,6 +374,8 @@ export function traceBatch(
   const s = ctx.surface;
   const { xy, hpq, t: tt, list, hit, res, grad } = scr;
   if (n > scr.n) rangeError('traceBatch', 'n', n, `at most the scratch size ${scr.n}`);
+  // Rays with a guess and a monotone clearance take the warm start together; each pending
+  // ray's point xy is written where its distance is set.
   let m = 0;
   for (let e = 0; e < n; e++) {
     const st = rs[k0 + e]!;
@@ -382,9 +384,12 @@ export function traceBatch(
     if (s === null || st !== S_OK) continue;
     const a = 3 * (k0 + e);
     const g = guess[e]!;
-    if (g === g && monotone(s, rd[a]!, rd[a + 1]!, rd[a + 2]!)) {
+    const dx = rd[a]!, dy = rd[a + 1]!;
+    if (g === g && monotone(s, dx, dy, rd[a + 2]!)) {
       list[m] = e;
       tt[m] = g;
+      xy[2 * m] = ro[a]! + g * dx;
+      xy[2 * m + 1] = ro[a + 1]! + g * dy;
       m++;
     }
   }
@@ -392,11 +397,6 @@ export function traceBatch(
     const b = s.bounds;
     // The warm start, three steps at most (as in hitSurface).
     for (let it = 0; it < 3 && m > 0; it++) {
-      for (let l = 0; l < m; l++) {
-        const a = 3 * (k0 + list[l]!), t = tt[l]!;
-        xy[2 * l] = ro[a]! + t * rd[a]!;
-        xy[2 * l + 1] = ro[a + 1]! + t * rd[a + 1]!;
-      }
       heightGradientMany(s, xy, m, hpq, grad);
       let m2 = 0;
       for (let l = 0; l < m; l++) {
@@ -416,8 +416,12 @@ export function traceBatch(
           }
           continue;
         }
+        // still pending (m2 ≤ l: the entries moved down have been read)
+        const tn = t - step;
         list[m2] = e;
-        tt[m2] = t - step;
+        tt[m2] = tn;
+        xy[2 * m2] = ro[a]! + tn * dx;
+        xy[2 * m2 + 1] = ro[a + 1]! + tn * dy;
         m2++;
       }
       m = m2;
