@@ -548,11 +548,17 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
   const W = t.width, H = t.height;
   const { map, owner, fold } = t;
   let flipped = 0;
+  // the cell's right corners (b, d) are the next cell's left ones (a, c)
+  const k0 = 2 * (v0 * mc + i0);
+  let Xb = snapped[k0]!, Yb = snapped[k0 + 1]!, Xd = snapped[k0 + 2 * mc]!, Yd = snapped[k0 + 2 * mc + 1]!;
   for (let i = i0; i < iEnd; i++) {
     const u0 = i;
-    const ka = 2 * (v0 * mc + i), kc = ka + 2 * mc;
-    const Xa = snapped[ka]!, Ya = snapped[ka + 1]!, Xb = snapped[ka + 2]!, Yb = snapped[ka + 3]!;
-    const Xc = snapped[kc]!, Yc = snapped[kc + 1]!, Xd = snapped[kc + 2]!, Yd = snapped[kc + 3]!;
+    const kb = 2 * (v0 * mc + i) + 2, kd = kb + 2 * mc;
+    const Xa = Xb, Ya = Yb, Xc = Xd, Yc = Yd;
+    Xb = snapped[kb]!;
+    Yb = snapped[kb + 1]!;
+    Xd = snapped[kd]!;
+    Yd = snapped[kd + 1]!;
     const area1 = (Xb - Xa) * (Yd - Ya) - (Yb - Ya) * (Xd - Xa);
     const area2 = (Xd - Xa) * (Yc - Ya) - (Yd - Ya) * (Xc - Xa);
     flipped += (area1 < 0 ? 1 : 0) + (area2 < 0 ? 1 : 0);
