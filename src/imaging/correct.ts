@@ -532,9 +532,21 @@ function rasterMesh(
   // in mesh order.
   const { snapped, snapOk, tris } = scratch;
   if (step === 1) snapVertices(outPix, vstat, S_OK, snapped, snapOk);
+  // exact mode: whether each mesh row has all its vertices on the lattice (the common
+  // case, whose cells then go in one call without a test a cell)
+  let rowAll = step === 1 ? rowOnLattice(snapOk, 0, MC) : false;
   for (let j = 0; j + 1 < MR; j++) {
     const va = rows[j]!, vc = rows[j + 1]!;
     let n = 0;
+    if (step === 1) {
+      const nextAll = rowOnLattice(snapOk, (j + 1) * MC, MC);
+      const both = rowAll && nextAll;
+      rowAll = nextAll;
+      if (both) {
+        flipped += rasterUnitCellsSnapped(target, snapped, MC, va, 0, MC - 1);
+        continue;
+      }
+    }
     for (let i = 0; i + 1 < MC; i++) {
       if (step === 1 && cellSnapped(snapOk, j * MC + i, MC)) {
         // a run of one-pixel cells whose corners are all on the lattice, in one call
@@ -584,6 +596,13 @@ interface RasterMeshScratch {
 function rasterMeshScratch(MC: number, MR: number, step: number): RasterMeshScratch {
   const nv = step === 1 ? MC * MR : 0;
   return { snapped: new Int32Array(2 * nv), snapOk: new Uint8Array(nv), tris: new Float64Array(step > 1 ? 2 * (MC - 1) * TRI_STRIDE : 0) };
+}
+
+/** Whether the `n` vertices from `k0` are all on the snap lattice. */
+function rowOnLattice(snapOk: Uint8Array, k0: number, n: number): boolean {
+  let all = 1;
+  for (let k = k0; k < k0 + n; k++) all &= snapOk[k]!;
+  return all === 1;
 }
 
 /** Whether the one-pixel cell with top-left vertex ka has all four corners on the snap lattice (so all valid). */
