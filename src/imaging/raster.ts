@@ -522,6 +522,17 @@ export function snapVertices(xy: Float64Array, status: Uint8Array, okValue: numb
   }
 }
 
+// Steps of the cell rasteriser's coverage value for the edge P → Q of a triangle of
+// orientation sg (t = 2·sg) from one pixel centre to the next: along x it adds
+// −t·256·(Qy − Py), along y t·256·(Qx − Px) (int32 for corners within a few pixels).
+function stepX(t: number, py: number, qy: number): number {
+  return Math.imul(t, py - qy) << 8;
+}
+
+function stepY(t: number, px: number, qx: number): number {
+  return Math.imul(t, qx - px) << 8;
+}
+
 // Coverage by an exact (integer) edge value `e` of a → b for a triangle of orientation
 // `sg`, with the tie rule of `owns` on the normalised winding.
 function coversSnapped(e: number, sg: number, ax: number, ay: number, bx: number, by: number): boolean {
@@ -603,34 +614,32 @@ export function rasterUnitCellsSnapped(t: RasterTarget, snapped: Int32Array, mc:
       const C2 = (Math.imul(t2, (Math.imul(cx, ay) - Math.imul(cy, ax)) | 0) + ((Math.imul(g2, ((ay - cy) << 12) + ax - cx) >> 31) | 1)) | 0;
       // a degenerate triangle covers nothing
       const k1 = (area1 | -area1) >> 31, k2 = (area2 | -area2) >> 31;
-      // Bit 2·(4·row + column) + (triangle − 1). Steps per pixel: x adds
-      // −2·sg·256·(Qy − Py), y adds 2·sg·256·(Qx − Px); a step is taken only where the
-      // box has that column or row (a third of the cells have a single centre).
+      // Bit 2·(4·row + column) + (triangle − 1); a step to the next centre (`stepX`,
+      // `stepY`) is taken only where the box has that column or row (a third of the cells
+      // have a single centre).
       let bits = ((~(A1 | B1 | C1) >>> 31) & k1) | (((~(A2 | B2 | C2) >>> 31) << 1) & k2);
       if (nx <= 1 && ny <= 1) {
+        // the values at the next column, where the box has one
+        let A1x = 0, B1x = 0, C1x = 0, A2x = 0, B2x = 0, C2x = 0;
         if (nx === 1) {
-          const xa1 = Math.imul(t1, ay - by) << 8, xb1 = Math.imul(t1, by - dy) << 8, xc1 = Math.imul(t1, dy - ay) << 8;
-          const xa2 = Math.imul(t2, ay - dy) << 8, xb2 = Math.imul(t2, dy - cy) << 8, xc2 = Math.imul(t2, cy - ay) << 8;
-          const A1x = (A1 + xa1) | 0, B1x = (B1 + xb1) | 0, C1x = (C1 + xc1) | 0;
-          const A2x = (A2 + xa2) | 0, B2x = (B2 + xb2) | 0, C2x = (C2 + xc2) | 0;
+          A1x = (A1 + stepX(t1, ay, by)) | 0; B1x = (B1 + stepX(t1, by, dy)) | 0; C1x = (C1 + stepX(t1, dy, ay)) | 0;
+          A2x = (A2 + stepX(t2, ay, dy)) | 0; B2x = (B2 + stepX(t2, dy, cy)) | 0; C2x = (C2 + stepX(t2, cy, ay)) | 0;
           bits |= (((~(A1x | B1x | C1x) >>> 31) << 2) & k1) | (((~(A2x | B2x | C2x) >>> 31) << 3) & k2);
-          if (ny === 1) {
-            const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
-            const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
-            bits |= (((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 8) | ((~((A1x + ya1) | (B1x + yb1) | (C1x + yc1)) >>> 31) << 10)) & k1;
-            bits |= (((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 9) | ((~((A2x + ya2) | (B2x + yb2) | (C2x + yc2)) >>> 31) << 11)) & k2;
-          }
-        } else if (ny === 1) {
-          const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
-          const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+        }
+        if (ny === 1) {
+          const ya1 = stepY(t1, ax, bx), yb1 = stepY(t1, bx, dx), yc1 = stepY(t1, dx, ax);
+          const ya2 = stepY(t2, ax, dx), yb2 = stepY(t2, dx, cx), yc2 = stepY(t2, cx, ax);
           bits |= (((~((A1 + ya1) | (B1 + yb1) | (C1 + yc1)) >>> 31) << 8) & k1) | (((~((A2 + ya2) | (B2 + yb2) | (C2 + yc2)) >>> 31) << 9) & k2);
+          if (nx === 1) {
+            bits |= (((~((A1x + ya1) | (B1x + yb1) | (C1x + yc1)) >>> 31) << 10) & k1) | (((~((A2x + ya2) | (B2x + yb2) | (C2x + yc2)) >>> 31) << 11) & k2);
+          }
         }
       } else {
         // a wider box (one cell in twenty): the same tests, row by row
-        const xa1 = Math.imul(t1, ay - by) << 8, xb1 = Math.imul(t1, by - dy) << 8, xc1 = Math.imul(t1, dy - ay) << 8;
-        const xa2 = Math.imul(t2, ay - dy) << 8, xb2 = Math.imul(t2, dy - cy) << 8, xc2 = Math.imul(t2, cy - ay) << 8;
-        const ya1 = Math.imul(t1, bx - ax) << 8, yb1 = Math.imul(t1, dx - bx) << 8, yc1 = Math.imul(t1, ax - dx) << 8;
-        const ya2 = Math.imul(t2, dx - ax) << 8, yb2 = Math.imul(t2, cx - dx) << 8, yc2 = Math.imul(t2, ax - cx) << 8;
+        const xa1 = stepX(t1, ay, by), xb1 = stepX(t1, by, dy), xc1 = stepX(t1, dy, ay);
+        const xa2 = stepX(t2, ay, dy), xb2 = stepX(t2, dy, cy), xc2 = stepX(t2, cy, ay);
+        const ya1 = stepY(t1, ax, bx), yb1 = stepY(t1, bx, dx), yc1 = stepY(t1, dx, ax);
+        const ya2 = stepY(t2, ax, dx), yb2 = stepY(t2, dx, cx), yc2 = stepY(t2, cx, ax);
         bits = 0;
         for (let r = 0, ra1 = A1, rb1 = B1, rc1 = C1, ra2 = A2, rb2 = B2, rc2 = C2; r <= ny; r++) {
           for (let q = 0, e1 = ra1, f1 = rb1, h1 = rc1, e2 = ra2, f2 = rb2, h2 = rc2; q <= nx; q++) {
