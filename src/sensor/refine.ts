@@ -132,11 +132,7 @@ export function reconstructSurface(geometry: SensorGeometry, light: GuideLight, 
   // the tank scenario at 1024², in 61 instead of 71 iterations over its four passes), far
   // below the loop's tolerance.
   const integ = (s: typeof data, start?: Float64Array): ScatteredResult =>
-    integrateScattered(
-      s,
-      spec,
-      start === undefined ? { smoothness, region: 'grid', model, tolerance: SOLVER_TOLERANCE } : { smoothness, region: 'grid', model, tolerance: SOLVER_TOLERANCE, initialGuess: start },
-    );
+    integrateScattered(s, spec, { smoothness, region: 'grid', model, tolerance: SOLVER_TOLERANCE, initialGuess: start });
   // Nodes at the corners of grid cells holding a sample: the ones data reach.
   const supported = (s: typeof data, g: Grid): Mask => {
     const m = new Uint8Array(g.width * g.height);
