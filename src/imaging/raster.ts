@@ -356,7 +356,6 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
     const av = (dv1 * e2y - dv2 * e1y) * inv, bv = (dv2 * e1x - dv1 * e2x) * inv;
     const sx0 = X0 / SNAP, sy0 = Y0 / SNAP;
     const cu = su0 - au * sx0 - bu * sy0, cv = sv0 - av * sx0 - bv * sy0;
-    const quad = hasCurv;
     const k01u = 0.5 * (au * d01x + bu * d01y), k01v = 0.5 * (av * d01x + bv * d01y);
     const k12u = 0.5 * (au * d12x + bu * d12y), k12v = 0.5 * (av * d12x + bv * d12y);
     const k02u = 0.5 * (au * d02x + bu * d02y), k02v = 0.5 * (av * d02x + bv * d02y);
@@ -400,11 +399,16 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       qu11 = k01u * p11a + k12u * p11b + k02u * p11c; qv11 = k01v * p11a + k12v * p11b + k02v * p11c;
       qu02 = k01u * p02a + k12u * p02b + k02u * p02c; qv02 = k01v * p02a + k12v * p02b + k02v * p02c;
     }
-    // along row Y the source position is then the linear part plus
-    // (Q00 + Q01 Y + Q02 Y²) + (Q10 + Q11 Y)·X + Q20·X²; its step along the row from X is
-    // au + Q10 + Q11 Y + Q20 (2X + 1) (bu0 = au + Q10), and its second difference 2·Q20
-    const bu0 = au + qu10, bv0 = av + qv10;
+    // With the linear part, the source position is one quadratic in X and Y: along row Y
+    // it is b(Y) + s(Y)·X + Q20·X², with b(Y) = b(0) + (bu + Q01)·Y + Q02·Y² and
+    // s(Y) = au + Q10 + Q11·Y, both stepped from row to row (first differences db and
+    // Q11, second difference 2·Q02 of b); its step along the row from X is
+    // s + Q20·(2X + 1), and its second difference there 2·Q20
     const ddu = 2 * qu20, ddv = 2 * qv20;
+    let bU = au * minX + bu * minY + cu + qu00, bV = av * minX + bv * minY + cv + qv00;
+    let dbU = bu + qu01 + qu02, dbV = bv + qv01 + qv02;
+    const ddbU = 2 * qu02, ddbV = 2 * qv02;
+    let sU = au + qu10, sV = av + qv10;
     // Whether every covered pixel's source position lies in [0, W − 1) × [0, H − 1), so the
     // sampling needs no clamps: the linear part stays in the source triangle and the
     // quadratic term is at most ¼ Σ|kᵢⱼ| (each product of weights is at most ¼ inside).
@@ -413,7 +417,11 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
     const inside =
       Math.min(su0, su1, su2) - qu > 0 && Math.max(su0, su1, su2) + qu < Wm &&
       Math.min(sv0, sv1, sv2) - qv > 0 && Math.max(sv0, sv1, sv2) + qv < Hm;
-    for (let py = minY; py <= maxY; py++, C0 += dC0, C1 += dC1, C2 += dC2) {
+    for (
+      let py = minY;
+      py <= maxY;
+      py++, C0 += dC0, C1 += dC1, C2 += dC2, bU += dbU, dbU += ddbU, bV += dbV, dbV += ddbV, sU += qu11, sV += qv11
+    ) {
       let lo = minX, hi = maxX;
       if (A0 > 0) { const x = ceilIn((m0 - C0) / A0, minX, maxX); if (x > lo) lo = x; }
       else if (A0 < 0) { const x = floorIn((m0 - C0) / A0, minX, maxX); if (x < hi) hi = x; }
@@ -426,17 +434,11 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
       else if (C2 < m2) continue;
       if (lo > hi) continue;
       const row = py * W;
-      // The source position at lo and its first and second differences along the row.
-      let u = au * lo + bu * py + cu, v = av * lo + bv * py + cv;
-      let du = au, dv = av;
-      if (quad) {
-        const X = lo - minX, Y = py - minY;
-        const rbu = qu10 + qu11 * Y, rbv = qv10 + qv11 * Y; // Q's X-coefficient on this row
-        u += qu00 + (qu01 + qu02 * Y) * Y + (rbu + qu20 * X) * X;
-        v += qv00 + (qv01 + qv02 * Y) * Y + (rbv + qv20 * X) * X;
-        du = bu0 + qu11 * Y + qu20 * (2 * X + 1);
-        dv = bv0 + qv11 * Y + qv20 * (2 * X + 1);
-      }
+      // The source position at lo and its first difference along the row.
+      const X = lo - minX;
+      const tu = qu20 * X, tv = qv20 * X;
+      let u = bU + (sU + tu) * X, v = bV + (sV + tv) * X;
+      let du = sU + tu + tu + qu20, dv = sV + tv + tv + qv20;
       if (src === null) {
         for (let p = row + lo, end = row + hi; p <= end; p++) {
           if (claim(owner, fold, p, prio)) {
