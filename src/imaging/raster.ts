@@ -378,7 +378,7 @@ export function rasterTrianglesSnapped(t: RasterTarget, tris: Float64Array, n: n
     const iA = 1 / area; // barycentric weights: w0 = E0/area, w1 = E1/area
     // The quadratic term Σ kᵢⱼ wᵢ wⱼ as a polynomial in X = px − minX, Y = py − minY:
     // wᵢ = αᵢ + βᵢ X + γᵢ Y, so the term is Q00 + Q10 X + Q01 Y + Q20 X² + Q11 X Y + Q02 Y²
-    // (Q20 the second difference along a row, the same on every row).
+    // (2·Q20 the second difference along a row, the same on every row).
     let qu00 = 0, qu10 = 0, qu01 = 0, qu20 = 0, qu11 = 0, qu02 = 0;
     let qv00 = 0, qv10 = 0, qv01 = 0, qv20 = 0, qv11 = 0, qv02 = 0;
     if (hasCurv) {
